@@ -1,0 +1,617 @@
+"""Read a TOML job file into the model, reporting every problem with its file, table and field.
+
+The format is described in docs/jobfile.md. Quantities are parsed to SI here and nowhere else.
+"""
+
+from __future__ import annotations
+
+import difflib
+import math
+import os
+import tomllib
+from typing import Any
+
+from . import materials
+from .errors import Collector, InputError, Problem
+from .model import (GROUND, PIN_LOAD, Body, Case, Job, Link, Load, Material, MethodChoice, Pin, Place,
+                    Plate, Support)
+from .units import G0, UNIT_SYSTEMS, QuantityError, check_unit, to_si
+
+MAX_FILE_BYTES = 4 * 1024 * 1024  # a job file is text typed by a person; anything larger is refused
+
+KEYS = {
+    "": {"job", "units", "method", "material", "body", "pin", "link", "support", "case", "load"},
+    "job": {"title", "output_units", "number", "revision", "prepared_by", "checked_by", "date", "client"},
+    "units": set(UNIT_SYSTEMS["SI"]),
+    "method": {"name", "design", "factors"},
+    "material": {"fy", "fu", "E", "source"},
+    "body": {"points", "description"},
+    "pin": {"joins", "diameter", "hole", "material", "replaceable", "rotates", "plate", "description"},
+    "plate": {"member", "thickness", "material", "width", "end", "shape", "gap", "hole", "share", "en_type"},
+    "link": {"ends", "kind", "description"},
+    "support": {"at", "kind", "normal", "description"},
+    "case": {"description", "limit_state"},
+    "load": {"case", "at", "body", "force", "angle", "mass", "moment", "label"},
+}
+RESERVED = {GROUND, PIN_LOAD}
+
+
+def suggest(word: str, choices) -> str:
+    near = difflib.get_close_matches(word, list(choices), n=1, cutoff=0.6)
+    return f" (did you mean '{near[0]}'?)" if near else ""
+
+
+def _line_of(text: str, table: str, field: str) -> int | None:
+    """Best-effort line number of ``field`` under a table header (tomllib keeps none)."""
+    lines = text.splitlines()
+    head = table.split("[")[0]
+    start = 0
+    if head:
+        for i, ln in enumerate(lines):
+            s = ln.strip().replace(" ", "")
+            if s in (f"[{head}]", f"[[{head}]]"):
+                start = i
+                break
+    for i in range(start, len(lines)):
+        s = lines[i].lstrip()
+        if field and (s.startswith(field + " ") or s.startswith(field + "=")):
+            return i + 1
+    return start + 1 if head else None
+
+
+class _Reader:
+    """Reads one job file; every helper records a problem instead of raising."""
+
+    def __init__(self, path: str, text: str):
+        self.path = path
+        self.text = text
+        self.c = Collector(path)
+        self.default_units: dict[str, str] = {}
+
+    def bad(self, table: str, field: str, message: str) -> None:
+        self.c.add(table, field, message, _line_of(self.text, table, field))
+
+    def keys(self, table: str, data: dict, kind: str) -> None:
+        for k in data:
+            if k not in KEYS[kind]:
+                self.bad(table, k, f"unknown field '{k}'{suggest(k, KEYS[kind])}; "
+                         f"fields here are: {', '.join(sorted(KEYS[kind]))}")
+
+    def table(self, data: dict, key: str, where: str) -> dict:
+        v = data.get(key, {})
+        if not isinstance(v, dict):
+            self.bad(where, key, f"expected a table [{key}], got {type(v).__name__}")
+            return {}
+        return v
+
+    def qty(self, table: str, data: dict, field: str, dim: str, required: bool = True,
+            positive: bool = False, nonneg: bool = False) -> float | None:
+        if field not in data:
+            if required:
+                self.bad(table, field, f"missing required field '{field}' (a {dim})")
+            return None
+        try:
+            v = to_si(data[field], dim, self.default_units.get(dim))
+        except QuantityError as exc:
+            self.bad(table, field, str(exc))
+            return None
+        if positive and not v > 0:
+            self.bad(table, field, f"must be greater than zero, got {data[field]!r}")
+            return None
+        if nonneg and v < 0:
+            self.bad(table, field, f"must not be negative, got {data[field]!r}")
+            return None
+        return v
+
+    def text_field(self, table: str, data: dict, field: str, choices=None, default=None, required=False):
+        if field not in data:
+            if required:
+                self.bad(table, field, f"missing required field '{field}'"
+                         + (f"; one of: {', '.join(choices)}" if choices else ""))
+            return default
+        v = data[field]
+        if not isinstance(v, str):
+            self.bad(table, field, f"expected text, got {v!r}")
+            return default
+        if choices is not None and v not in choices:
+            self.bad(table, field, f"'{v}' is not one of: {', '.join(choices)}{suggest(v, choices)}")
+            return default
+        return v
+
+    def flag(self, table: str, data: dict, field: str) -> bool:
+        v = data.get(field, False)
+        if not isinstance(v, bool):
+            self.bad(table, field, f"expected true or false, got {v!r}")
+            return False
+        return v
+
+    def name_ok(self, table: str, name: str) -> bool:
+        if name in RESERVED:
+            self.bad(table, "", f"'{name}' is a reserved member name; choose another name")
+            return False
+        if "." in name:
+            self.bad(table, "", f"a name may not contain '.', got '{name}'")
+            return False
+        return True
+
+
+def load_job(path: str | os.PathLike) -> Job:
+    """Read and validate a job file.
+
+    Raises:
+        InputError: listing every problem found, each with file, table and field.
+    """
+    path = str(path)
+    try:
+        size = os.path.getsize(path)
+    except OSError as exc:
+        raise InputError(Problem(path, "", "", f"cannot read the job file: {exc.strerror}")) from None
+    if size > MAX_FILE_BYTES:
+        raise InputError(Problem(path, "", "", f"the file is {size} bytes; a job file may be at most "
+                                 f"{MAX_FILE_BYTES} bytes"))
+    try:
+        with open(path, "rb") as fh:
+            raw = fh.read()
+        text = raw.decode("utf-8")
+    except UnicodeDecodeError:
+        raise InputError(Problem(path, "", "", "the file is not UTF-8 text; a job file is a TOML text file")) from None
+    except OSError as exc:
+        raise InputError(Problem(path, "", "", f"cannot read the job file: {exc.strerror}")) from None
+    try:
+        data = tomllib.loads(text)
+    except tomllib.TOMLDecodeError as exc:
+        raise InputError(Problem(path, "", "", f"not a valid TOML file: {exc}")) from None
+    if not data:
+        raise InputError(Problem(path, "", "", "the file is empty; a job needs at least [job], [method], "
+                                 "[body.*], [case.*] and [[load]] (see docs/jobfile.md)"))
+    return parse_job(data, path, text)
+
+
+def parse_job(data: dict[str, Any], path: str = "<job>", text: str = "") -> Job:
+    """Build a Job from the parsed TOML tables (see ``load_job``)."""
+    r = _Reader(path, text)
+    r.keys("", data, "")
+
+    # [units]: default units of bare numbers
+    units = r.table(data, "units", "")
+    r.keys("units", units, "units")
+    for dim, u in units.items():
+        if dim in KEYS["units"]:
+            try:
+                r.default_units[dim] = check_unit(u, dim)
+            except QuantityError as exc:
+                r.bad("units", dim, str(exc))
+
+    # [job]
+    jt = r.table(data, "job", "")
+    if "job" not in data:
+        r.bad("job", "", "missing table [job] (with at least title = \"...\")")
+    r.keys("job", jt, "job")
+    title = r.text_field("job", jt, "title", default="(untitled job)")
+    output_units = r.text_field("job", jt, "output_units", choices=list(UNIT_SYSTEMS), default="SI")
+    info = {k: str(v) for k, v in jt.items() if k in KEYS["job"] - {"title", "output_units"}}
+
+    method = _method(r, data)
+    job_materials = _materials(r, data)
+    bodies = _bodies(r, data)
+    cases = _cases(r, data)
+    pin_tables = r.table(data, "pin", "")
+    pins_partial = _pins_frame(r, pin_tables, bodies)
+    links = _links(r, data, bodies, pins_partial)
+    supports = _supports(r, data, bodies, pins_partial)
+    loads = _loads(r, data, bodies, pins_partial, cases)
+    pins = _pins_stack(r, pin_tables, pins_partial, links, supports, loads, job_materials)
+
+    r.c.raise_if_any()
+    return Job(path=path, title=title, method=method, output_units=output_units, bodies=bodies, pins=pins,
+               links=links, supports=supports, loads=tuple(loads), cases=cases, info=info)
+
+
+def _method(r: _Reader, data: dict) -> MethodChoice:
+    from .methods import METHODS
+
+    mt = r.table(data, "method", "")
+    if "method" not in data:
+        r.bad("method", "name", f"missing table [method]; name one of: {', '.join(METHODS)}")
+        return MethodChoice("EN 1993-1-8", None, {})
+    r.keys("method", mt, "method")
+    name = r.text_field("method", mt, "name", choices=list(METHODS), required=True)
+    if name is None:
+        return MethodChoice("EN 1993-1-8", None, {})
+    m = METHODS[name]
+    design = None
+    if m.VARIANTS:
+        design = r.text_field("method", mt, "design", choices=list(m.VARIANTS), default=m.VARIANTS[0])
+    elif "design" in mt:
+        r.bad("method", "design", f"{name} has no design variants; remove 'design'")
+    factors: dict[str, float] = {}
+    ft = r.table(mt, "factors", "method")
+    for k, v in ft.items():
+        if k not in m.FACTORS:
+            r.bad("method.factors", k, f"unknown factor '{k}' for {name}{suggest(k, m.FACTORS)}; "
+                  f"factors: {', '.join(m.FACTORS)}")
+        elif isinstance(v, bool) or not isinstance(v, (int, float)) or not math.isfinite(v) or v <= 0:
+            r.bad("method.factors", k, f"a factor must be a finite number greater than zero, got {v!r}")
+        else:
+            factors[k] = float(v)
+    return MethodChoice(name, design, factors)
+
+
+def _materials(r: _Reader, data: dict) -> dict[str, Material]:
+    out: dict[str, Material] = {}
+    for name, t in r.table(data, "material", "").items():
+        where = f"material.{name}"
+        if not isinstance(t, dict):
+            r.bad(where, "", "expected a table with fy, fu, E and source")
+            continue
+        r.keys(where, t, "material")
+        fy = r.qty(where, t, "fy", "stress", positive=True)
+        fu = r.qty(where, t, "fu", "stress", positive=True)
+        E = r.qty(where, t, "E", "stress", required=False, positive=True)
+        source = r.text_field(where, t, "source", required=True)
+        if fy is not None and fu is not None and fy > fu:
+            r.bad(where, "fy", "the yield strength fy exceeds the tensile strength fu; check the values")
+        if None not in (fy, fu, source):
+            out[name] = Material(name, fy, fu, E if E is not None else 210e9, source)
+    return out
+
+
+def _xy(r: _Reader, where: str, field: str, v) -> tuple[float, float] | None:
+    if not isinstance(v, list) or len(v) != 2:
+        r.bad(where, field, f"expected a pair of coordinates [x, y], got {v!r}")
+        return None
+    out = []
+    for comp in v:
+        try:
+            out.append(to_si(comp, "length", r.default_units.get("length")))
+        except QuantityError as exc:
+            r.bad(where, field, str(exc))
+            return None
+    return (out[0], out[1])
+
+
+def _bodies(r: _Reader, data: dict) -> dict[str, Body]:
+    out: dict[str, Body] = {}
+    bt = r.table(data, "body", "")
+    if not bt:
+        r.bad("body", "", "no bodies: describe at least one [body.NAME] with its points")
+    for name, t in bt.items():
+        where = f"body.{name}"
+        if not isinstance(t, dict):
+            r.bad(where, "", "expected a table with points = { NAME = [x, y], ... }")
+            continue
+        r.name_ok(where, name)
+        r.keys(where, t, "body")
+        pts = t.get("points")
+        if not isinstance(pts, dict) or not pts:
+            r.bad(where, "points", "missing or empty: give points = { A = [x, y], B = [x, y] }")
+            continue
+        points = {}
+        for pn, v in pts.items():
+            xy = _xy(r, where, f"points.{pn}", v)
+            if xy is not None:
+                points[pn] = xy
+        out[name] = Body(name, points)
+    return out
+
+
+def _cases(r: _Reader, data: dict) -> dict[str, Case]:
+    out: dict[str, Case] = {}
+    ct = r.table(data, "case", "")
+    if not ct:
+        r.bad("case", "", "no load cases: declare at least one [case.NAME]")
+    for name, t in ct.items():
+        where = f"case.{name}"
+        if not isinstance(t, dict):
+            r.bad(where, "", "expected a table (it may be empty)")
+            continue
+        r.keys(where, t, "case")
+        out[name] = Case(name, r.text_field(where, t, "description", default=""),
+                         r.text_field(where, t, "limit_state", choices=["ULS", "SLS"], default="ULS"))
+    return out
+
+
+def _ref(r: _Reader, where: str, field: str, ref, bodies: dict[str, Body], pins: dict | None) -> Place | None:
+    """Resolve "body.point" or a pin name to a Place."""
+    if not isinstance(ref, str):
+        r.bad(where, field, f"expected \"body.point\" or a pin name, got {ref!r}")
+        return None
+    if "." in ref:
+        bname, _, pname = ref.partition(".")
+        if bname not in bodies:
+            r.bad(where, field, f"'{ref}': there is no body '{bname}'{suggest(bname, bodies)}")
+            return None
+        if pname not in bodies[bname].points:
+            r.bad(where, field, f"'{ref}': body {bname} has no point '{pname}'"
+                  f"{suggest(pname, bodies[bname].points)}; its points: {', '.join(bodies[bname].points)}")
+            return None
+        return Place(bname, pname, None, bodies[bname].points[pname])
+    if pins is not None and ref in pins:
+        return Place(None, None, ref, pins[ref]["xy"])
+    what = "\"body.point\" or a pin name" if pins is not None else "\"body.point\""
+    r.bad(where, field, f"'{ref}' is not a {what}{suggest(ref, list(pins or {}))}")
+    return None
+
+
+def _pins_frame(r: _Reader, pt: dict, bodies: dict[str, Body]) -> dict[str, dict]:
+    """First pass over pins: where each is and which bodies it joins."""
+    out: dict[str, dict] = {}
+    for name, t in pt.items():
+        where = f"pin.{name}"
+        if not isinstance(t, dict):
+            r.bad(where, "", "expected a table with joins = [\"body.point\", ...]")
+            continue
+        r.name_ok(where, name)
+        r.keys(where, t, "pin")
+        joins = t.get("joins")
+        if not isinstance(joins, list) or not joins:
+            r.bad(where, "joins", "missing: list the body points this pin joins, e.g. joins = [\"boom.C\", \"strut.C\"]")
+            continue
+        places = [_ref(r, where, "joins", j, bodies, None) for j in joins]
+        if any(p is None for p in places):
+            continue
+        xy = places[0].xy
+        size = max(1.0, max(abs(c) for p in places for c in p.xy))
+        for p in places[1:]:
+            if math.dist(p.xy, xy) > 1e-9 * size:
+                r.bad(where, "joins", f"the points it joins are not at one place: {places[0].label} is at "
+                      f"({xy[0]:g}, {xy[1]:g}) m and {p.label} at ({p.xy[0]:g}, {p.xy[1]:g}) m")
+                break
+        names = [p.body for p in places]
+        if len(set(names)) != len(names):
+            r.bad(where, "joins", "a body is listed twice; a pin joins each body once")
+            continue
+        out[name] = {"xy": xy, "bodies": tuple(names)}
+    return out
+
+
+def _links(r: _Reader, data: dict, bodies, pins) -> dict[str, Link]:
+    out: dict[str, Link] = {}
+    for name, t in r.table(data, "link", "").items():
+        where = f"link.{name}"
+        if not isinstance(t, dict):
+            r.bad(where, "", "expected a table with ends = [A, B]")
+            continue
+        r.name_ok(where, name)
+        if name in bodies:
+            r.bad(where, "", f"the name '{name}' is used by a body too; names must be unique")
+        r.keys(where, t, "link")
+        kind = r.text_field(where, t, "kind", choices=["link", "cable"], default="link")
+        ends = t.get("ends")
+        if not isinstance(ends, list) or len(ends) != 2:
+            r.bad(where, "ends", "expected two ends, e.g. ends = [\"boom.B\", \"P4\"]")
+            continue
+        places = [_ref(r, where, "ends", e, bodies, pins) for e in ends]
+        if None in places:
+            continue
+        if math.dist(places[0].xy, places[1].xy) <= 1e-9:
+            r.bad(where, "ends", "the two ends are at the same place; a link needs a length")
+            continue
+        out[name] = Link(name, kind, (places[0], places[1]))
+    return out
+
+
+def _supports(r: _Reader, data: dict, bodies, pins) -> dict[str, Support]:
+    out: dict[str, Support] = {}
+    at_pin: dict[str, str] = {}
+    st = r.table(data, "support", "")
+    for name, t in st.items():
+        where = f"support.{name}"
+        if not isinstance(t, dict):
+            r.bad(where, "", "expected a table with at = ... and kind = ...")
+            continue
+        r.keys(where, t, "support")
+        kind = r.text_field(where, t, "kind", choices=["pinned", "roller", "fixed"], required=True)
+        place = _ref(r, where, "at", t.get("at"), bodies, pins) if "at" in t else None
+        if "at" not in t:
+            r.bad(where, "at", "missing: where the support is, \"body.point\" or a pin name")
+        if kind is None or place is None:
+            continue
+        normal = None
+        if kind == "roller":
+            n = t.get("normal")
+            if (not isinstance(n, list) or len(n) != 2
+                    or not all(isinstance(c, (int, float)) and not isinstance(c, bool) and math.isfinite(c) for c in n)
+                    or math.hypot(*n) == 0):
+                r.bad(where, "normal", f"a roller needs normal = [nx, ny], the direction of its reaction, "
+                      f"not zero; got {n!r}")
+                continue
+            h = math.hypot(*n)
+            normal = (n[0] / h, n[1] / h)
+        elif "normal" in t:
+            r.bad(where, "normal", f"only a roller has a normal; a {kind} support takes none")
+        if place.pin is not None:
+            if kind == "fixed":
+                r.bad(where, "kind", "a pin turns freely, so a support at a pin cannot be fixed; "
+                      "fix a body point instead, or make it pinned")
+                continue
+            if place.pin in at_pin:
+                r.bad(where, "at", f"pin {place.pin} already has support {at_pin[place.pin]}; one support per pin")
+                continue
+            at_pin[place.pin] = name
+        out[name] = Support(name, kind, place, normal)
+    if not st and bodies:
+        r.bad("support", "", "no supports: a frame needs at least one [support.NAME] to stand on")
+    return out
+
+
+def _loads(r: _Reader, data: dict, bodies, pins, cases) -> list[Load]:
+    out: list[Load] = []
+    lt = data.get("load", [])
+    if not isinstance(lt, list):
+        r.bad("load", "", "expected an array of tables [[load]]")
+        return out
+    if not lt:
+        r.bad("load", "", "no loads: add at least one [[load]]")
+    for i, t in enumerate(lt, start=1):
+        where = f"load #{i}"
+        if not isinstance(t, dict):
+            r.bad(where, "", "expected a table")
+            continue
+        r.keys(where, t, "load")
+        case = r.text_field(where, t, "case", required=True)
+        if case is not None and case not in cases:
+            r.bad(where, "case", f"there is no load case '{case}'{suggest(case, cases)}; "
+                  f"declared cases: {', '.join(cases) or '(none)'}")
+            case = None
+        place = _ref(r, where, "at", t.get("at"), bodies, pins) if "at" in t else None
+        if "at" not in t:
+            r.bad(where, "at", "missing: where the load acts, \"body.point\" or a pin name")
+        body = r.text_field(where, t, "body")
+        if body is not None and place is not None:
+            if place.pin is None:
+                r.bad(where, "body", "'body' is only for a load at a pin; at a body point the body is already named")
+            elif body not in pins[place.pin]["bodies"]:
+                r.bad(where, "body", f"body '{body}' is not joined by pin {place.pin}; it joins "
+                      f"{', '.join(pins[place.pin]['bodies'])}")
+        given = [k for k in ("force", "mass") if k in t]
+        if len(given) > 1:
+            r.bad(where, "mass", "give either force or mass, not both")
+        fx = fy = 0.0
+        ok = True
+        if "force" in t:
+            f = t["force"]
+            if isinstance(f, list):
+                if len(f) != 2 or "angle" in t:
+                    r.bad(where, "force", "give force = [Fx, Fy], or force = \"F\" with angle = \"θ deg\"")
+                    ok = False
+                else:
+                    try:
+                        fx, fy = (to_si(c, "force", r.default_units.get("force")) for c in f)
+                    except QuantityError as exc:
+                        r.bad(where, "force", str(exc))
+                        ok = False
+            else:
+                mag = r.qty(where, t, "force", "force", nonneg=True)
+                ang = r.qty(where, t, "angle", "angle")
+                if mag is None or ang is None:
+                    ok = False
+                else:
+                    fx, fy = mag * math.cos(ang), mag * math.sin(ang)
+        elif "mass" in t:
+            m = r.qty(where, t, "mass", "mass", nonneg=True)
+            if m is None:
+                ok = False
+            else:
+                fy = -m * G0  # weight of the mass, straight down (-y), standard gravity
+            if "angle" in t:
+                r.bad(where, "angle", "a mass loads straight down (-y); remove 'angle' or give a force")
+        moment = r.qty(where, t, "moment", "moment", required=False) or 0.0
+        if "force" not in t and "mass" not in t and "moment" not in t:
+            r.bad(where, "force", "a load needs a force, a mass or a moment")
+            ok = False
+        if moment and place is not None and place.pin is not None and body is None:
+            r.bad(where, "moment", "a pin turns freely and takes no moment; put the moment on a body")
+            ok = False
+        if ok and case is not None and place is not None:
+            out.append(Load(case, place, (fx, fy), moment, body, str(t.get("label", ""))))
+    return out
+
+
+def _material(r: _Reader, where: str, field: str, name, size: float, own: dict[str, Material]) -> Material | None:
+    if not isinstance(name, str):
+        r.bad(where, field, f"expected a material name, got {name!r}")
+        return None
+    if name in own:
+        return own[name]
+    lib = materials.library()
+    if name not in lib:
+        r.bad(where, field, f"unknown material '{name}'{suggest(name, list(lib) + list(own))}; define it "
+              f"under [material.{name}] or use one of: {', '.join(lib)}")
+        return None
+    try:
+        return materials.at_size(name, size)
+    except ValueError as exc:
+        r.bad(where, field, str(exc))
+        return None
+
+
+def _pins_stack(r: _Reader, pt: dict, frame: dict, links, supports, loads, own) -> dict[str, Pin]:
+    """Second pass over pins: size, material and the stack of plates, checked against the frame."""
+    at_pin: dict[str, set[str]] = {n: set(f["bodies"]) for n, f in frame.items()}
+    for ln, link in links.items():
+        for e in link.ends:
+            if e.pin in at_pin:
+                at_pin[e.pin].add(ln)
+    for s in supports.values():
+        if s.at.pin in at_pin:
+            at_pin[s.at.pin].add(GROUND)
+    for ld in loads:
+        if ld.at.pin in at_pin and ld.body is None:
+            at_pin[ld.at.pin].add(PIN_LOAD)
+
+    out: dict[str, Pin] = {}
+    for name, f in frame.items():
+        t = pt[name]
+        where = f"pin.{name}"
+        plates_t = t.get("plate", [])
+        if not isinstance(plates_t, list):
+            r.bad(where, "plate", f"expected [[pin.{name}.plate]] tables, one per plate in stack order")
+            plates_t = []
+        d = r.qty(where, t, "diameter", "length", required=bool(plates_t), positive=True)
+        hole = r.qty(where, t, "hole", "length", required=bool(plates_t), positive=True)
+        if d is not None and hole is not None and hole < d:
+            r.bad(where, "hole", f"the hole ({t['hole']}) is smaller than the pin ({t['diameter']}); "
+                  "the hole must be at least the pin diameter")
+        mat = None
+        if plates_t:
+            if "material" not in t:
+                r.bad(where, "material", "missing: the pin's material (or bolt grade)")
+            elif d is not None:
+                mat = _material(r, where, "material", t["material"], d, own)
+        stack: list[Plate] = []
+        for i, p in enumerate(plates_t, start=1):
+            pw = f"pin.{name}.plate #{i}"
+            if not isinstance(p, dict):
+                r.bad(pw, "", "expected a table")
+                continue
+            r.keys(pw, p, "plate")
+            member = r.text_field(pw, p, "member", required=True)
+            if member is not None and member not in at_pin[name]:
+                r.bad(pw, "member", f"'{member}' does not meet pin {name}{suggest(member, at_pin[name])}; "
+                      f"members here: {', '.join(sorted(at_pin[name]))}")
+                member = None
+            th = r.qty(pw, p, "thickness", "length", positive=True)
+            gap = r.qty(pw, p, "gap", "length", required=False, nonneg=True) or 0.0
+            ph = r.qty(pw, p, "hole", "length", required=False, positive=True)
+            ph = ph if ph is not None else hole
+            if ph is not None and d is not None and ph < d:
+                r.bad(pw, "hole", "the plate's hole is smaller than the pin")
+            share = None
+            if "share" in p:
+                s = p["share"]
+                if isinstance(s, bool) or not isinstance(s, (int, float)) or not 0 < s <= 1:
+                    r.bad(pw, "share", f"a share is a fraction of the member's force, 0 < share <= 1; got {s!r}")
+                else:
+                    share = float(s)
+            checked = member != PIN_LOAD
+            pmat = width = end = None
+            shape, en_type = "round", "A"
+            if checked and member is not None:
+                if "material" not in p:
+                    r.bad(pw, "material", "missing: the plate's material")
+                elif th is not None:
+                    pmat = _material(r, pw, "material", p["material"], th, own)
+                width = r.qty(pw, p, "width", "length", positive=True)
+                end = r.qty(pw, p, "end", "length", positive=True)
+                shape = r.text_field(pw, p, "shape", choices=["round", "square"], default="round")
+                en_type = r.text_field(pw, p, "en_type", choices=["A", "B"], default="A")
+                if ph is not None and width is not None and width <= ph:
+                    r.bad(pw, "width", f"the plate ({p['width']}) is not wider than its hole; nothing is left beside it")
+                if ph is not None and end is not None and end <= ph / 2:
+                    r.bad(pw, "end", f"the end distance ({p['end']}) lies inside the hole; it is measured from "
+                          "the hole centre and must exceed half the hole diameter")
+            if None in (member, th, ph) or (checked and None in (pmat, width, end)):
+                continue
+            stack.append(Plate(member, th, gap, share, pmat, width, end, shape, ph, en_type))
+        if plates_t and len(stack) == len(plates_t):
+            members = [pl.member for pl in stack]
+            for m in at_pin[name]:
+                if m not in members:
+                    r.bad(where, "plate", f"member '{m}' meets pin {name} but has no plate in its stack; "
+                          "every member at a checked pin needs its plate")
+            if len(stack) < 2:
+                r.bad(where, "plate", "a stack needs at least two plates")
+        out[name] = Pin(name, f["xy"], f["bodies"], d, mat, tuple(stack),
+                        r.flag(where, t, "replaceable"), r.flag(where, t, "rotates"))
+    return out

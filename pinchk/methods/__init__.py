@@ -1,0 +1,55 @@
+"""Published design methods, one module each, registered by the name a job file uses.
+
+A method module defines NAME, EDITION, VARIANTS (e.g. ("ASD", "LRFD") or ()), FACTORS (name ->
+(default, what it is and where it comes from)) and two functions, ``pin_checks(P, f, variant)`` and
+``plate_checks(Q, f, variant)``, that take columns of SI arrays and return a list of ``Check``.
+Nothing in a method module knows about files, units or output.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+import numpy.typing as npt
+
+from . import aisc360_16, en1993_1_8
+
+
+@dataclass(frozen=True)
+class Check:
+    """One check over many rows: demand against capacity, with its clause.
+
+    ``kind`` is the kind of figure demand and capacity are ("force", "moment", "length", "stress" or
+    "ratio"); ``mask`` marks the rows the check applies to; ``factors`` lists the factors used.
+    """
+
+    name: str
+    clause: str  # the standard and clause, e.g. "EN 1993-1-8 Table 3.10"
+    formula: str  # the equation checked, as the clause writes it
+    kind: str
+    demand: npt.NDArray[np.float64]
+    capacity: npt.NDArray[np.float64]
+    factors: str
+    mask: npt.NDArray[np.bool_] | None = None
+    note: str = ""
+
+
+def make_check(name, clause_formula, kind, demand, capacity, factors, mask=None, note="") -> Check:
+    """A Check from "clause: formula" text and array-likes (the form the method modules write)."""
+    clause, _, formula = clause_formula.partition(": ")
+    return Check(name, clause, formula, kind, np.asarray(demand, float), np.asarray(capacity, float),
+                 factors, mask, note)
+
+
+METHODS = {
+    en1993_1_8.NAME: en1993_1_8,
+    aisc360_16.NAME: aisc360_16,
+}
+
+
+def factors_for(module, overrides: dict[str, float]) -> dict[str, float]:
+    """The method's default factors with the job's overrides applied."""
+    f = {k: v[0] for k, v in module.FACTORS.items()}
+    f.update(overrides)
+    return f

@@ -1,0 +1,94 @@
+"""AISC 360-16 §D5 and §J7, pin-connected members, ASD or LRFD.
+
+AISC 360 has no clause for the shear and bending of the pin itself; those checks follow common
+practice (shear as 0.6 Fu on each plane; bending per §F11 for solid round bars) and say so.
+
+Columns as in en1993_1_8, plus for plates fu (plate tensile strength) and rot (the pin turns under load).
+
+References:
+    ANSI/AISC 360-16 Specification for Structural Steel Buildings: §D5.1 (a)-(d), §D5.2, §D2(a), §J7,
+    §F11.1. The 1999 LRFD edition numbered these D3 and J8.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+
+NAME = "AISC 360-16"
+EDITION = "ANSI/AISC 360-16"
+VARIANTS = ("ASD", "LRFD")
+FACTORS = {
+    "phi_tr": (0.75, "φt, tensile rupture, §D5.1(a)"),
+    "omega_tr": (2.00, "Ωt, tensile rupture, §D5.1(a)"),
+    "phi_sr": (0.75, "φsf, shear rupture, §D5.1(b)"),
+    "omega_sr": (2.00, "Ωsf, shear rupture, §D5.1(b)"),
+    "phi_ty": (0.90, "φt, tensile yielding on the gross section, §D2(a)"),
+    "omega_ty": (1.67, "Ωt, tensile yielding on the gross section, §D2(a)"),
+    "phi_br": (0.75, "φ, bearing on pins, §J7"),
+    "omega_br": (2.00, "Ω, bearing on pins, §J7"),
+    "phi_pv": (0.75, "φ, pin shear (common practice, as shear rupture)"),
+    "omega_pv": (2.00, "Ω, pin shear (common practice, as shear rupture)"),
+    "phi_pb": (0.90, "φb, pin bending, §F1"),
+    "omega_pb": (1.67, "Ωb, pin bending, §F1"),
+}
+BE_ADD = 0.016  # §D5.1: be = 2t + 0.63 in (2t + 16 mm); the SI 16 mm is the smaller, used for both
+ROT_CLEARANCE = 0.0254 / 32  # §D5.2: hole at most 1/32 in (1 mm) over the pin; the smaller 1/32 in used
+
+
+def _resistance(Rn, f, key, variant):
+    """Available strength: φ Rn (LRFD) or Rn / Ω (ASD), with the factor as printed."""
+    if variant == "LRFD":
+        phi = f["phi_" + key]
+        return phi * Rn, f"φ = {phi:g}"
+    om = f["omega_" + key]
+    return Rn / om, f"Ω = {om:g}"
+
+
+def _check(*args, **kw):
+    from . import make_check
+
+    return make_check(*args, **kw)
+
+
+def pin_checks(P, f, variant="ASD"):
+    d = P["d"]
+    A = np.pi * d**2 / 4
+    Vn = 0.6 * P["fup"] * A
+    Z, S = d**3 / 6, np.pi * d**3 / 32  # plastic and elastic section moduli of a solid round
+    Mn = np.minimum(P["fyp"] * Z, 1.6 * P["fyp"] * S)  # §F11.1 (Mn = Fy Z ≤ 1.6 Fy S)
+    Vc, fv = _resistance(Vn, f, "pv", variant)
+    Mc, fb = _resistance(Mn, f, "pb", variant)
+    return [
+        _check("pin shear", "common practice (no AISC 360 clause): Vn = 0.6 Fu A per shear plane", "force",
+               P["V"], Vc, fv),
+        _check("pin bending", "AISC 360-16 §F11.1 (common practice for pins): Mn = Fy Z ≤ 1.6 Fy S", "moment",
+               P["M"], Mc, fb),
+    ]
+
+
+def plate_checks(Q, f, variant="ASD"):
+    F, t, d, d0 = Q["F"], Q["t"], Q["d"], Q["d0"]
+    side = Q["width"] / 2 - d0 / 2  # hole edge to plate edge, across the force
+    be = np.minimum(2 * t + BE_ADD, side)  # §D5.1(a)
+    a = Q["a_end"] - d0 / 2  # hole edge to plate end, along the force
+    Pn_tr = Q["fu"] * 2 * t * be  # §D5.1(a) tensile rupture on the net effective area
+    Pn_sr = 0.6 * Q["fu"] * 2 * t * (a + d / 2)  # §D5.1(b), Asf = 2 t (a + d/2)
+    Rn_br = 1.8 * np.minimum(Q["fy"], Q["fyp"]) * t * d  # §J7, Apb = t d
+    Pn_ty = Q["fy"] * t * Q["width"]  # §D2(a) on the gross section, Ag = t w
+    c_tr, f_tr = _resistance(Pn_tr, f, "tr", variant)
+    c_sr, f_sr = _resistance(Pn_sr, f, "sr", variant)
+    c_br, f_br = _resistance(Rn_br, f, "br", variant)
+    c_ty, f_ty = _resistance(Pn_ty, f, "ty", variant)
+    return [
+        _check("tensile rupture", "AISC 360-16 §D5.1(a): Pn = Fu (2 t be), be = 2t + 16 mm ≤ edge distance",
+               "force", F, c_tr, f_tr),
+        _check("shear rupture", "AISC 360-16 §D5.1(b): Pn = 0.6 Fu Asf, Asf = 2t (a + d/2)", "force", F, c_sr,
+               f_sr),
+        _check("bearing", "AISC 360-16 §J7: Rn = 1.8 Fy Apb, Apb = t d (Fy the lower of plate and pin)",
+               "force", F, c_br, f_br),
+        _check("gross yielding", "AISC 360-16 §D5.1(d), §D2(a): Pn = Fy Ag, Ag = t w", "force", F, c_ty, f_ty),
+        _check("end distance", "AISC 360-16 §D5.2: a ≥ 1.33 be", "length", 1.33 * be, a, ""),
+        _check("width", "AISC 360-16 §D5.2: w ≥ 2 be + d", "length", 2 * be + d, Q["width"], ""),
+        _check("hole clearance (rotating)", "AISC 360-16 §D5.2: d0 ≤ d + 1/32 in (1 mm) where the pin turns "
+               "under load", "length", d0 - d, np.full_like(d, ROT_CLEARANCE), "", Q["rot"]),
+    ]

@@ -1,0 +1,89 @@
+"""EN 1993-1-8:2005 §3.13, pin connections.
+
+Columns (SI arrays, one entry per row):
+  pins:   d (pin diameter), fup, fyp (pin ultimate and yield strengths), V (largest shear at a plane
+          between plates), M (largest bending moment), uls (row is an ultimate case), ser (row is
+          a replaceable pin under a serviceability case)
+  plates: F (force on the plate), t, d, d0 (hole), fy (plate yield), fyp (pin yield), E, a_end (hole
+          centre to plate end), width, type_b (Table 3.9 type B), uls, ser
+
+References:
+    EN 1993-1-8:2005 Eurocode 3, Design of steel structures, Part 1-8: Design of joints, §3.13,
+    Table 3.9, Table 3.10, eqs (3.14)-(3.16), Fig. 3.11; partial factors §2.2 and EN 1993-1-1 §6.1.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+
+NAME = "EN 1993-1-8"
+EDITION = "EN 1993-1-8:2005 (with EN 1993-1-1:2005 for γM0), recommended partial factors"
+VARIANTS: tuple[str, ...] = ()
+FACTORS = {
+    "gamma_M0": (1.00, "γM0, resistance of cross-sections: EN 1993-1-1 §6.1(1) recommended value"),
+    "gamma_M2": (1.25, "γM2, resistance in shear of pins and bolts: EN 1993-1-8 §2.2(2) Table 2.1"),
+    "gamma_M6_ser": (1.00, "γM6,ser, serviceability of pins: EN 1993-1-8 §2.2(2) Table 2.1"),
+}
+
+
+def _check(*args, **kw):
+    from . import make_check
+
+    return make_check(*args, **kw)
+
+
+def pin_checks(P, f, variant=None):
+    """Pin shear, bending and their interaction (Table 3.10), and bending under serviceability loads."""
+    g0, g2, g6 = f["gamma_M0"], f["gamma_M2"], f["gamma_M6_ser"]
+    d = P["d"]
+    A = np.pi * d**2 / 4
+    Wel = np.pi * d**3 / 32
+    Fv_Rd = 0.6 * A * P["fup"] / g2  # Table 3.10, shear resistance per shear plane
+    M_Rd = 1.5 * Wel * P["fyp"] / g0  # Table 3.10, bending resistance of the pin
+    M_Rd_ser = 0.8 * Wel * P["fyp"] / g6  # Table 3.10, replaceable pin
+    uls = P["uls"]
+    inter = (P["M"] / M_Rd) ** 2 + (P["V"] / Fv_Rd) ** 2
+    return [
+        _check("pin shear", "EN 1993-1-8 Table 3.10: Fv,Rd = 0.6 A fup / γM2", "force", P["V"], Fv_Rd,
+               f"γM2 = {g2:g}", uls),
+        _check("pin bending", "EN 1993-1-8 Table 3.10: MRd = 1.5 Wel fyp / γM0 (MEd per Fig. 3.11 model)",
+               "moment", P["M"], M_Rd, f"γM0 = {g0:g}", uls),
+        _check("pin shear + bending", "EN 1993-1-8 Table 3.10: (MEd/MRd)² + (Fv,Ed/Fv,Rd)² ≤ 1", "ratio",
+               inter, np.ones_like(inter), f"γM0 = {g0:g}, γM2 = {g2:g}", uls,
+               "largest moment and largest shear combined, wherever they occur (conservative)"),
+        _check("pin bending (serviceability)", "EN 1993-1-8 Table 3.10: MRd,ser = 0.8 Wel fyp / γM6,ser",
+               "moment", P["M"], M_Rd_ser, f"γM6,ser = {g6:g}", P["ser"]),
+    ]
+
+
+def plate_checks(Q, f, variant=None):
+    """Bearing (Table 3.10), contact stress (eqs 3.14-3.16) and the Table 3.9 geometry rules."""
+    g0, g6 = f["gamma_M0"], f["gamma_M6_ser"]
+    F, t, d, d0 = Q["F"], Q["t"], Q["d"], Q["d0"]
+    fy_low = np.minimum(Q["fy"], Q["fyp"])  # Table 3.10: fy is the lower of pin and plate
+    uls, ser = Q["uls"], Q["ser"]
+    type_a, type_b = uls & ~Q["type_b"], uls & Q["type_b"]
+    Fb_Rd = 1.5 * t * d * fy_low / g0
+    Fb_Rd_ser = 0.6 * t * d * fy_low / g6
+    sigma_h = 0.591 * np.sqrt(Q["E"] * F * (d0 - d) / (d**2 * t))  # eq (3.15)
+    fh_Rd = 2.5 * fy_low / g6  # eq (3.16)
+    a_have = Q["a_end"] - d0 / 2  # Table 3.9: a from the hole edge to the plate end, along the force
+    c_have = Q["width"] / 2 - d0 / 2  # Table 3.9: c from the hole edge to the side edge
+    base = F * g0 / (2 * t * Q["fy"])
+    t_min_b = 0.7 * np.sqrt(F * g0 / Q["fy"])
+    return [
+        _check("bearing", "EN 1993-1-8 Table 3.10: Fb,Rd = 1.5 t d fy / γM0", "force", F, Fb_Rd,
+               f"γM0 = {g0:g}", uls),
+        _check("bearing (serviceability)", "EN 1993-1-8 Table 3.10: Fb,Rd,ser = 0.6 t d fy / γM6,ser",
+               "force", F, Fb_Rd_ser, f"γM6,ser = {g6:g}", ser),
+        _check("contact stress", "EN 1993-1-8 eqs (3.14)-(3.16): σh,Ed = 0.591 √(E F (d0-d)/(d² t)) ≤ 2.5 fy / γM6,ser",
+               "stress", sigma_h, fh_Rd, f"γM6,ser = {g6:g}", ser),
+        _check("end distance (type A)", "EN 1993-1-8 Table 3.9 A: a ≥ FEd γM0/(2 t fy) + 2 d0/3", "length",
+               base + 2 * d0 / 3, a_have, f"γM0 = {g0:g}", type_a),
+        _check("edge distance (type A)", "EN 1993-1-8 Table 3.9 A: c ≥ FEd γM0/(2 t fy) + d0/3", "length",
+               base + d0 / 3, c_have, f"γM0 = {g0:g}", type_a),
+        _check("thickness (type B)", "EN 1993-1-8 Table 3.9 B: t ≥ 0.7 √(FEd γM0 / fy)", "length",
+               t_min_b, t, f"γM0 = {g0:g}", type_b, "outline of the Table 3.9 B figure assumed"),
+        _check("hole to thickness (type B)", "EN 1993-1-8 Table 3.9 B: d0 ≤ 2.5 t", "length", d0, 2.5 * t,
+               "", type_b),
+    ]

@@ -1,0 +1,146 @@
+"""The job as pinchk holds it: frozen dataclasses of SI floats, built once by the job-file reader."""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+#: Member names with a fixed meaning in a pin's stack.
+GROUND = "ground"  # the support that ties a pin to the ground (a base bracket)
+PIN_LOAD = "load"  # where a load hung on the pin itself enters it (a shackle, a hook)
+
+
+@dataclass(frozen=True)
+class Material:
+    """Strengths of one material at one size [Pa], and where they come from."""
+
+    name: str
+    fy: float
+    fu: float
+    E: float
+    source: str
+
+
+@dataclass(frozen=True)
+class Body:
+    """A rigid body with named points (x, y) [m]."""
+
+    name: str
+    points: dict[str, tuple[float, float]]
+
+
+@dataclass(frozen=True)
+class Place:
+    """Where a link end, support or load attaches: a body's point, or a pin (the pin itself)."""
+
+    body: str | None  # None when the place is a pin
+    point: str | None
+    pin: str | None
+    xy: tuple[float, float]
+
+    @property
+    def label(self) -> str:
+        return self.pin if self.pin is not None else f"{self.body}.{self.point}"
+
+
+@dataclass(frozen=True)
+class Plate:
+    """One plate (or other member) of a pin's stack, in order along the pin.
+
+    Lengths in m. ``end`` is the distance from the hole centre to the plate's end along its axis (the
+    end radius of a round-ended lug); ``width`` the plate width across the axis, the hole centred.
+    """
+
+    member: str  # body, link, "ground" or "load"
+    thickness: float
+    gap: float  # clear gap to the previous plate in the stack
+    share: float | None  # share of the member's force; None: in proportion to thickness
+    material: Material | None
+    width: float | None
+    end: float | None
+    shape: str  # "round" or "square"
+    hole: float  # hole diameter in this plate
+    en_type: str  # EN 1993-1-8 Table 3.9 type: "A" or "B"
+
+    @property
+    def checked(self) -> bool:
+        return self.material is not None
+
+
+@dataclass(frozen=True)
+class Pin:
+    """A pin: the bodies it joins at one point, and (if it is to be checked) its size and stack."""
+
+    name: str
+    xy: tuple[float, float]
+    bodies: tuple[str, ...]
+    diameter: float | None
+    material: Material | None
+    stack: tuple[Plate, ...]
+    replaceable: bool = False
+    rotates: bool = False
+
+    @property
+    def checked(self) -> bool:
+        return bool(self.stack)
+
+
+@dataclass(frozen=True)
+class Link:
+    """A two-force member between two places: a link (tension or compression) or a cable."""
+
+    name: str
+    kind: str  # "link" or "cable"
+    ends: tuple[Place, Place]
+
+
+@dataclass(frozen=True)
+class Support:
+    """A support: pinned (2 reactions), roller (1, along ``normal``) or fixed (2 and a moment)."""
+
+    name: str
+    kind: str
+    at: Place
+    normal: tuple[float, float] | None = None
+
+
+@dataclass(frozen=True)
+class Load:
+    """A force [N] and moment [N*m] in one load case, at a place; on a pin, optionally on one body."""
+
+    case: str
+    at: Place
+    force: tuple[float, float]
+    moment: float = 0.0
+    body: str | None = None  # for a load at a pin: the body that takes it (None: the pin itself)
+    label: str = ""
+
+
+@dataclass(frozen=True)
+class Case:
+    name: str
+    description: str = ""
+    limit_state: str = "ULS"
+
+
+@dataclass(frozen=True)
+class MethodChoice:
+    """The design method, its variant (ASD / LRFD) and the factors the job overrides."""
+
+    name: str
+    variant: str | None
+    factors: dict[str, float] = field(default_factory=dict)
+
+
+@dataclass(frozen=True)
+class Job:
+    path: str
+    title: str
+    method: MethodChoice
+    output_units: str
+    bodies: dict[str, Body]
+    pins: dict[str, Pin]
+    links: dict[str, Link]
+    supports: dict[str, Support]
+    loads: tuple[Load, ...]
+    cases: dict[str, Case]
+    info: dict[str, str] = field(default_factory=dict)

@@ -1,0 +1,76 @@
+"""Machine-readable views: JSON (the contract of DESIGN.md) and CSV of the long table."""
+
+from __future__ import annotations
+
+import csv
+import io
+import json
+
+from .. import __version__
+from . import CAUTION
+from .common import convert, force_rows, unit_of, units_of, verdict
+
+CSV_COLUMNS = ("pin", "part", "check", "case", "demand", "capacity", "unit", "utilization", "status", "clause",
+               "formula", "factors", "note")
+
+
+def _rows(results) -> list[dict]:
+    units = units_of(results)
+    out = []
+    for r in results.rows():
+        kind = r.pop("kind")
+        r["demand"] = float(convert(r["demand"], kind, units))
+        r["capacity"] = float(convert(r["capacity"], kind, units))
+        r["unit"] = unit_of(kind, units)
+        out.append({k: r[k] for k in CSV_COLUMNS})
+    return out
+
+
+def to_dict(results) -> dict:
+    units = units_of(results)
+    rows = _rows(results)
+    g = results.governing
+    governing = None
+    if g is not None:
+        governing = {k: rows[g][k] for k in ("pin", "part", "check", "case", "utilization", "status")}
+    fu = unit_of("force", units)
+    sol = results.solution
+    return {
+        "pinchk": __version__,
+        "job": {"title": results.job.title, "file": results.job.path, **results.job.info},
+        "method": {"name": results.method, "edition": results.edition, "design": results.variant,
+                   "factors": results.factors},
+        "units": {k: unit_of(k, units) for k in ("force", "moment", "length", "stress")},
+        "verdict": verdict(results),
+        "governing": governing,
+        "checks": rows,
+        "joint_forces": [
+            {"case": c, "pin": p, "member": m, "fx": convert(fx, "force", units), "fy": convert(fy, "force", units),
+             "resultant": convert(f, "force", units), "angle_deg": a, "unit": fu}
+            for c, p, m, fx, fy, f, a in force_rows(results)],
+        "supports": [
+            {"case": c, "support": s, "rx": convert(r[j, 0], "force", units), "ry": convert(r[j, 1], "force", units),
+             "moment": convert(r[j, 2], "moment", units)}
+            for s, r in sol.supports.items() for j, c in enumerate(sol.cases)],
+        "links": [{"case": c, "link": n, "tension": convert(t[j], "force", units)}
+                  for n, t in sol.links.items() for j, c in enumerate(sol.cases)],
+        "solver": sol.solver,
+        "equilibrium_residual": sol.residual,
+        "unchecked_pins": list(results.unchecked),
+        "assumptions": list(results.assumptions),
+        "caution": CAUTION,
+    }
+
+
+def render_json(results, **_) -> str:
+    return json.dumps(to_dict(results), indent=2, ensure_ascii=False) + "\n"
+
+
+def render_csv(results, **_) -> str:
+    buf = io.StringIO()
+    w = csv.DictWriter(buf, fieldnames=CSV_COLUMNS, lineterminator="\n")
+    w.writeheader()
+    for r in _rows(results):
+        w.writerow({**r, "demand": repr(r["demand"]), "capacity": repr(r["capacity"]),
+                    "utilization": repr(r["utilization"])})
+    return buf.getvalue()

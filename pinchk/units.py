@@ -1,0 +1,156 @@
+"""The one unit registry of pinchk: quantities are parsed to SI floats here and formatted here.
+
+Everything past this module works on plain SI floats and numpy arrays (m, N, Pa, N*m, kg, rad).
+"""
+
+from __future__ import annotations
+
+import math
+import re
+from functools import lru_cache
+
+import pint
+
+ureg = pint.UnitRegistry()
+ureg.formatter.default_format = "~"
+
+#: SI unit of each dimension pinchk reads.
+SI_UNIT = {
+    "length": "m",
+    "force": "N",
+    "stress": "Pa",
+    "moment": "N*m",
+    "mass": "kg",
+    "angle": "rad",
+}
+
+#: Output unit systems: the unit printed for each kind of figure.
+UNIT_SYSTEMS = {
+    "SI": {"length": "mm", "force": "kN", "stress": "MPa", "moment": "kN*m", "mass": "t", "angle": "deg"},
+    "US": {"length": "in", "force": "kip", "stress": "ksi", "moment": "kip*in", "mass": "lb", "angle": "deg"},
+}
+
+#: Standard acceleration of gravity, CGPM 1901 (exact), used only where a job gives a load as a mass.
+G0 = 9.80665
+
+# A quantity string is a number and a short unit expression: bounded so a crafted string cannot make
+# the parser work for long (at most 40 characters, digits, letters, space and . + - * / ^ ( ) only).
+_MAX_LEN = 40
+_ALLOWED = re.compile(r"^[0-9A-Za-z.+\-*/^() µ°]+$")
+
+
+class QuantityError(ValueError):
+    """A quantity could not be read; the message says what was expected."""
+
+
+@lru_cache(maxsize=256)
+def _unit_factor(unit_text: str, dim: str) -> float:
+    """SI factor of a unit expression, checked for dimension (cached: a job repeats its units)."""
+    q = ureg.Quantity(1.0, unit_text)
+    try:
+        return float(q.to(SI_UNIT[dim]).magnitude)
+    except pint.DimensionalityError:
+        raise QuantityError(
+            f"'{unit_text}' is a unit of {_dim_name(q)}, but a {dim} is needed (for example "
+            f"{_example(dim)})"
+        ) from None
+
+
+def _dim_name(q: pint.Quantity) -> str:
+    for name, unit in SI_UNIT.items():
+        if q.check(ureg.Quantity(1.0, unit).dimensionality):
+            return name
+    return str(q.dimensionality)
+
+
+def _example(dim: str) -> str:
+    return {
+        "length": '"40 mm" or "1.5 in"',
+        "force": '"120 kN" or "25 kip"',
+        "stress": '"355 MPa" or "50 ksi"',
+        "moment": '"12 kN*m" or "100 kip*in"',
+        "mass": '"2.5 t" or "5000 lb"',
+        "angle": '"30 deg"',
+    }[dim]
+
+
+_NUMBER = re.compile(r"^\s*([+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?)\s*(.*?)\s*$")
+
+
+def to_si(value: object, dim: str, default_unit: str | None = None) -> float:
+    """Read one quantity into an SI float.
+
+    Args:
+        value: a string with a unit ("40 mm"), or a bare number taken in ``default_unit``.
+        dim: the dimension the field needs, a key of ``SI_UNIT``.
+        default_unit: the job's declared unit for bare numbers of this dimension, if any.
+
+    Raises:
+        QuantityError: the value is not a finite quantity of the right dimension.
+    """
+    if isinstance(value, bool):
+        raise QuantityError(f"expected a {dim} such as {_example(dim)}, got {value!r}")
+    if isinstance(value, (int, float)):
+        number = float(value)
+        if default_unit is None:
+            raise QuantityError(
+                f"the bare number {value!r} has no unit and the job declares no default {dim} unit; "
+                f"write it with its unit, for example {_example(dim)}, or set [units] {dim}"
+            )
+        unit_text = default_unit
+    elif isinstance(value, str):
+        if len(value) > _MAX_LEN or not _ALLOWED.match(value):
+            shown = value if len(value) <= _MAX_LEN else value[:_MAX_LEN] + "..."
+            raise QuantityError(
+                f"{shown!r} is not a quantity pinchk reads: write a number and a unit, "
+                f"for example {_example(dim)} (at most {_MAX_LEN} characters)"
+            )
+        m = _NUMBER.match(value)
+        if not m:
+            raise QuantityError(f"{value!r} does not start with a number; write for example {_example(dim)}")
+        number = float(m.group(1))
+        unit_text = m.group(2)
+        if not unit_text:
+            if default_unit is None:
+                raise QuantityError(
+                    f"{value!r} has no unit and the job declares no default {dim} unit; "
+                    f"write for example {_example(dim)}"
+                )
+            unit_text = default_unit
+    else:
+        raise QuantityError(f"expected a {dim} such as {_example(dim)}, got {value!r}")
+    if not math.isfinite(number):
+        raise QuantityError(f"{value!r} is not a finite number")
+    try:
+        factor = _unit_factor(unit_text.strip(), dim)
+    except QuantityError:
+        raise
+    except (pint.UndefinedUnitError, pint.errors.DefinitionSyntaxError, AttributeError, TypeError,
+            ValueError, SyntaxError, KeyError) as exc:
+        raise QuantityError(
+            f"{unit_text!r} is not a unit pinchk knows ({type(exc).__name__}); write for example {_example(dim)}"
+        ) from None
+    return number * factor
+
+
+def check_unit(unit_text: str, dim: str) -> str:
+    """Validate a unit name given for a dimension (the job's default units); returns it."""
+    if not isinstance(unit_text, str) or len(unit_text) > _MAX_LEN or not _ALLOWED.match(unit_text):
+        raise QuantityError(f"expected a unit of {dim} such as {_example(dim).split()[1]}..., got {unit_text!r}")
+    try:
+        _unit_factor(unit_text, dim)
+    except QuantityError:
+        raise
+    except Exception:
+        raise QuantityError(f"{unit_text!r} is not a unit pinchk knows") from None
+    return unit_text
+
+
+def from_si(value, dim: str, unit: str):
+    """Convert an SI float or array to ``unit`` (a unit of ``dim``)."""
+    return value / _unit_factor(unit, dim)
+
+
+def unit_label(unit: str) -> str:
+    """Short printed form of a unit name ("kN*m" -> "kN·m")."""
+    return unit.replace("*", "·")
