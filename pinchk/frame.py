@@ -4,8 +4,12 @@ Every body gives three equilibrium equations in the plane (two forces and a mome
 pin is a small free body of its own, so a load can hang on the pin itself). Unknowns: the two force
 components each body receives from each pin it sits on, one tension per link or cable, and the reactions
 of the supports (pinned 2, roller 1, fixed 3). The rank of the equations tells a determinate structure
-from a mechanism or an indeterminate one; only a determinate one is solved. One sparse factorization
-serves every load case, solved at once as a matrix of right-hand sides.
+from a mechanism or an indeterminate one; only a determinate one is solved. One factorization serves
+every load case, solved at once as a matrix of right-hand sides: dense (numpy) for a small frame, sparse
+(scipy's SuperLU) for a large one.
+
+The equations are assembled as arrays, one block per kind of unknown (pin forces on bodies, links,
+supports), never entry by entry, so a frame of 10,000 bodies assembles in milliseconds.
 """
 
 from __future__ import annotations
@@ -14,16 +18,24 @@ from dataclasses import dataclass
 
 import numpy as np
 import numpy.typing as npt
-import scipy.sparse as sp
-import scipy.sparse.linalg as spla
 
 from .errors import Problem, StructureError
 from .model import GROUND, PIN_LOAD, Job
 
 #: Above this many unknowns the rank is not found by a dense SVD; the sparse factorization decides.
 DENSE_RANK_LIMIT = 2000
+#: Up to this many unknowns and equations the frame is solved dense with numpy (an SVD for the rank, an
+#: LU for the solution): at this size that is cheaper than a sparse factorization, and scipy is not
+#: imported at all, which keeps a small job's start-up short.
+DENSE_SOLVE_LIMIT = 200
+#: A sparse factorization with a pivot below this fraction of the largest pivot is taken as a sign of a
+#: singular system; up to DENSE_RANK_LIMIT unknowns the dense SVD then decides (and says where).
+PIVOT_SUSPECT = 1e-8
 #: Equilibrium residual allowed, relative to the largest force in the solution.
 RESIDUAL_TOL = 1e-9
+
+_SINGULAR = ("the equilibrium equations are singular: the structure is a mechanism or indeterminate "
+             "(too large to locate where)")
 
 
 @dataclass(frozen=True)
@@ -51,18 +63,46 @@ class FrameSolution:
     solver: str = "rigid-body statics"
 
 
+
 class _Index:
-    """Numbering of unknowns and equations, with what each one belongs to (for diagnostics)."""
+    """Numbering of unknowns and equations, with what each one belongs to (for diagnostics).
+
+    Blocks of numbers are taken at once; the owner names are only written out when a diagnostic asks
+    for them (a large frame that solves never needs them).
+    """
 
     def __init__(self) -> None:
         self.n = 0
-        self.owner: list[str] = []
+        self._blocks: list[tuple[object, object]] = []  # (numbers per item, labels or a function giving them)
 
     def take(self, k: int, owner: str) -> int:
         start = self.n
         self.n += k
-        self.owner += [owner] * k
+        self._blocks.append((k, [owner]))
         return start
+
+    def take_each(self, ks, labels) -> npt.NDArray[np.intp]:
+        """Numbers for items of ``ks`` numbers each (an int or one per item); returns the first of each.
+
+        ``labels`` is a list of owner names, one per item, or a function returning it.
+        """
+        ks = np.asarray(ks, dtype=np.intp)
+        if ks.ndim == 0:
+            raise TypeError("take_each needs one count per item")
+        starts = self.n + np.concatenate([[0], np.cumsum(ks)[:-1]]).astype(np.intp) if ks.size else ks
+        self.n += int(ks.sum())
+        self._blocks.append((ks, labels))
+        return starts
+
+    @property
+    def owner(self) -> list[str]:
+        out: list[str] = []
+        for ks, labels in self._blocks:
+            names = labels() if callable(labels) else labels
+            counts = [ks] * len(names) if isinstance(ks, int) else ks.tolist()
+            for name, k in zip(names, counts, strict=True):
+                out += [name] * k
+        return out
 
 
 def _members(job: Job) -> dict[str, list[str]]:
@@ -81,137 +121,295 @@ def _members(job: Job) -> dict[str, list[str]]:
     return members
 
 
-def assemble(job: Job):
-    """Equilibrium equations ``A x = b`` of the job, with the numbering used."""
+def _unit(a_xy: npt.NDArray[np.float64], b_xy: npt.NDArray[np.float64]) -> npt.NDArray[np.float64]:
+    """Unit vectors from a to b, row by row."""
+    d = b_xy - a_xy
+    return d / np.hypot(d[:, 0], d[:, 1])[:, None]
+
+
+def _xy(places) -> npt.NDArray[np.float64]:
+    return np.array([p.xy for p in places], dtype=float).reshape(-1, 2)
+
+
+class _Entries:
+    """COO triplets of the equilibrium matrix, gathered block by block."""
+
+    def __init__(self, L: float) -> None:
+        self.L = L
+        self.rows: list[npt.NDArray] = []
+        self.cols: list[npt.NDArray] = []
+        self.vals: list[npt.NDArray] = []
+
+    def add(self, r, c, v) -> None:
+        r = np.asarray(r, dtype=np.intp)
+        self.rows.append(r)
+        self.cols.append(np.broadcast_to(np.asarray(c, dtype=np.intp), r.shape))
+        self.vals.append(np.broadcast_to(np.asarray(v, dtype=float), r.shape))
+
+    def on_body_xy(self, r, c, rx, ry) -> None:
+        """Unknown (Fx, Fy) in columns c, c + 1 acting on the bodies with rows r, at offsets (rx, ry)."""
+        self.add(r, c, 1.0)
+        self.add(r + 1, c + 1, 1.0)
+        self.add(r + 2, c, -ry / self.L)
+        self.add(r + 2, c + 1, rx / self.L)
+
+    def on_body_line(self, r, c, rx, ry, dx, dy) -> None:
+        """One unknown in column c acting along (dx, dy) on the bodies with rows r, at offsets (rx, ry)."""
+        self.add(r, c, dx)
+        self.add(r + 1, c, dy)
+        self.add(r + 2, c, (rx * dy - ry * dx) / self.L)
+
+    def arrays(self):
+        if not self.rows:
+            return np.zeros(0, np.intp), np.zeros(0, np.intp), np.zeros(0)
+        rows, cols, vals = (np.concatenate(a) for a in (self.rows, self.cols, self.vals))
+        keep = vals != 0.0
+        return rows[keep], cols[keep], vals[keep]
+
+
+def _group_sum(values: npt.NDArray[np.float64], groups, n_group: int) -> npt.NDArray[np.float64]:
+    """Sum of the rows of ``values`` (item, ...) by the group of each item: (group, ...).
+
+    Each group's items are added one after another in the order given, exactly as a loop over the
+    items would add them (so the sums are the same to the last bit); one vectorized step per rank.
+    """
+    groups = np.asarray(groups, dtype=np.intp)
+    out = np.zeros((n_group,) + values.shape[1:])
+    if groups.size == 0:
+        return out
+    order = np.argsort(groups, kind="stable")
+    v = values[order]
+    counts = np.bincount(groups, minlength=n_group)
+    first = np.cumsum(counts) - counts
+    for r in range(int(counts.max())):
+        g = np.flatnonzero(counts > r)
+        out[g] += v[first[g] + r]
+    return out
+
+
+@dataclass(frozen=True)
+class _Slots:
+    """Where each member's force sits when the members of every pin are laid one after another.
+
+    Pin k's members (bodies, links, ground, load, in the order of ``_members``) take the slots
+    start[k] .. start[k + 1] - 1. Built once from the job, shared by the assembly, the collection of
+    the forces and the equilibrium check.
+    """
+
+    start: npt.NDArray[np.intp]  # (n_pin + 1,)
+    pb_pin: npt.NDArray[np.intp]  # every (pin, body) pair, in pin order then pin.bodies order
+    pb_body: npt.NDArray[np.intp]
+    pb_slot: npt.NDArray[np.intp]
+    s_link: list[int]  # slots of link ends at pins, with the link's index and the end's sign
+    l_link: list[int]
+    sign: list[float]
+    s_gnd: list[int]  # slots of supports at pins, with the support's index
+    g_sup: list[int]
+    s_load: list[int]  # slots of loads hung on pins, with the pin's index
+    p_load: list[int]
+
+
+def _slots(job: Job, members: dict[str, list[str]], pin_ix: dict[str, int], body_ix: dict[str, int]) -> _Slots:
+    n_b = np.fromiter((len(p.bodies) for p in job.pins.values()), np.intp, len(job.pins))
+    lens = np.fromiter((len(m) for m in members.values()), np.intp, len(members))
+    start = np.concatenate([[0], np.cumsum(lens)]).astype(np.intp)
+    n_pair = int(n_b.sum())
+    pb_pin = np.repeat(np.arange(len(n_b), dtype=np.intp), n_b)
+    pb_body = np.fromiter((body_ix[b] for p in job.pins.values() for b in p.bodies), np.intp, n_pair)
+    pair_first = np.cumsum(n_b) - n_b
+    pb_slot = start[pb_pin] + (np.arange(n_pair, dtype=np.intp) - pair_first[pb_pin])
+    # the rest of each pin's slots fill in the order _members appends them: links, ground, load
+    fill = (start[:-1] + n_b).tolist()
+    s_link, l_link, sign = [], [], []
+    for li, link in enumerate(job.links.values()):
+        for end, sg in zip(link.ends, (1.0, -1.0), strict=True):
+            if end.pin is not None:
+                k = pin_ix[end.pin]
+                s_link.append(fill[k])
+                fill[k] += 1
+                l_link.append(li)
+                sign.append(sg)
+    s_gnd, g_sup = [], []
+    first_sup: dict[str, int] = {}
+    for si, sup in enumerate(job.supports.values()):
+        if sup.at.pin is not None:
+            first_sup.setdefault(sup.at.pin, si)
+    for sup in job.supports.values():
+        if sup.at.pin is not None:
+            k = pin_ix[sup.at.pin]
+            s_gnd.append(fill[k])
+            fill[k] += 1
+            g_sup.append(first_sup[sup.at.pin])  # a pin's ground is its (first) support
+    s_load, p_load = [], []
+    seen: set[int] = set()
+    for ld in job.loads:
+        if ld.at.pin is not None and ld.body is None:
+            k = pin_ix[ld.at.pin]
+            if k not in seen:
+                seen.add(k)
+                s_load.append(fill[k])
+                fill[k] += 1
+                p_load.append(k)
+    return _Slots(start, pb_pin, pb_body, pb_slot, s_link, l_link, sign, s_gnd, g_sup, s_load, p_load)
+
+
+def _triplets(job: Job):
+    """Equilibrium equations as COO triplets ``(rows, cols, vals)``, the shape, ``b`` and the numbering."""
     cases = tuple(job.cases)
     case_ix = {c: i for i, c in enumerate(cases)}
     members = _members(job)
-    xs = [xy for b in job.bodies.values() for xy in b.points.values()]
-    span = float(np.ptp(np.asarray(xs), axis=0).max()) if len(xs) > 1 else 1.0
+    body_names = list(job.bodies)
+    pin_names = list(job.pins)
+    body_ix = {name: i for i, name in enumerate(body_names)}
+    pin_ix = {name: i for i, name in enumerate(pin_names)}
+    n_body, n_pin = len(body_names), len(pin_names)
+
+    n_pts = np.array([len(b.points) for b in job.bodies.values()], dtype=np.intp)
+    pts = np.array([xy for b in job.bodies.values() for xy in b.points.values()], dtype=float).reshape(-1, 2)
+    span = float(np.ptp(pts, axis=0).max()) if len(pts) > 1 else 1.0
     L = span if span > 0 else 1.0  # moment rows are divided by L so every entry is of order one
+    # reference point of each body: the mean of its points
+    ref = _group_sum(pts, np.repeat(np.arange(n_body), n_pts), n_body) / np.maximum(n_pts, 1)[:, None]
 
     eqs, unk = _Index(), _Index()
-    body_eq = {name: eqs.take(3, f"body {name}") for name in job.bodies}
-    pin_eq = {name: eqs.take(2, f"pin {name}") for name in job.pins}
-    ref = {name: np.mean(np.asarray(list(b.points.values())), axis=0) for name, b in job.bodies.items()}
-
-    rows: list[int] = []
-    cols: list[int] = []
-    vals: list[float] = []
-
-    def add(r: int, c: int, v: float) -> None:
-        if v != 0.0:
-            rows.append(r)
-            cols.append(c)
-            vals.append(v)
-
-    def force_on_body(body: str, xy, col_fx: int | None, col_fy: int | None, dx: float, dy: float) -> None:
-        """Add unknown force columns acting on ``body`` at ``xy`` (unit vector components dx, dy when a
-        single column carries a force along a line)."""
-        r = body_eq[body]
-        rx, ry = np.asarray(xy) - ref[body]
-        if col_fy is None:  # one unknown along (dx, dy)
-            add(r, col_fx, dx)
-            add(r + 1, col_fx, dy)
-            add(r + 2, col_fx, (rx * dy - ry * dx) / L)
-        else:
-            add(r, col_fx, 1.0)
-            add(r + 1, col_fy, 1.0)
-            add(r + 2, col_fx, -ry / L)
-            add(r + 2, col_fy, rx / L)
+    body_row = eqs.take_each(np.full(n_body, 3), lambda: [f"body {n}" for n in body_names])
+    pin_row = eqs.take_each(np.full(n_pin, 2), lambda: [f"pin {n}" for n in pin_names])
+    pin_xy = np.array([p.xy for p in job.pins.values()], dtype=float).reshape(-1, 2)
+    E = _Entries(L)
+    slots = _slots(job, members, pin_ix, body_ix)
+    pb_pin, pb_body = slots.pb_pin, slots.pb_body
 
     # pin-to-body forces: unknown (Fx, Fy) the body receives; the pin receives the opposite
-    pin_body_col: dict[tuple[str, str], int] = {}
-    for pname, pin in job.pins.items():
-        for body in pin.bodies:
-            c = unk.take(2, f"pin {pname} at body {body}")
-            pin_body_col[(pname, body)] = c
-            force_on_body(body, pin.xy, c, c + 1, 0, 0)
-            add(pin_eq[pname], c, -1.0)
-            add(pin_eq[pname] + 1, c + 1, -1.0)
+    pairs = [(pname, body) for pname, pin in job.pins.items() for body in pin.bodies]
+    c = unk.take_each(np.full(len(pairs), 2), lambda: [f"pin {p} at body {b}" for p, b in pairs])
+    pin_body_col = dict(zip(pairs, c.tolist(), strict=True))
+    pb_col = c
+    if pairs:
+        rxy = pin_xy[pb_pin] - ref[pb_body]
+        E.on_body_xy(body_row[pb_body], c, rxy[:, 0], rxy[:, 1])
+        E.add(pin_row[pb_pin], c, -1.0)
+        E.add(pin_row[pb_pin] + 1, c + 1, -1.0)
 
     # links and cables: one tension each, pulling each end toward the other
-    link_col: dict[str, int] = {}
-    for lname, link in job.links.items():
-        c = unk.take(1, f"{link.kind} {lname}")
-        link_col[lname] = c
-        a, b = link.ends
-        d = np.subtract(b.xy, a.xy)
-        u = d / np.hypot(*d)
-        for end, s in ((a, 1.0), (b, -1.0)):
-            ux, uy = s * u
-            if end.pin is not None:
-                add(pin_eq[end.pin], c, ux)
-                add(pin_eq[end.pin] + 1, c, uy)
-            else:
-                force_on_body(end.body, end.xy, c, None, ux, uy)
+    link_list = list(job.links.values())
+    c = unk.take_each(np.ones(len(link_list), dtype=np.intp), lambda: [f"{lk.kind} {lk.name}" for lk in link_list])
+    link_col = dict(zip(job.links, c.tolist(), strict=True))
+    if link_list:
+        a_xy = _xy(lk.ends[0] for lk in link_list)
+        b_xy = _xy(lk.ends[1] for lk in link_list)
+        u = _unit(a_xy, b_xy)
+        for k, (s, end_xy) in enumerate(((1.0, a_xy), (-1.0, b_xy))):
+            su = s * u
+            ends = [lk.ends[k] for lk in link_list]
+            at_pin = np.array([e.pin is not None for e in ends], dtype=bool)
+            if at_pin.any():
+                pr = pin_row[[pin_ix[e.pin] for e in ends if e.pin is not None]]
+                E.add(pr, c[at_pin], su[at_pin, 0])
+                E.add(pr + 1, c[at_pin], su[at_pin, 1])
+            on_body = ~at_pin
+            if on_body.any():
+                bi = np.array([body_ix[e.body] for e in ends if e.pin is None], dtype=np.intp)
+                rxy = end_xy[on_body] - ref[bi]
+                E.on_body_line(body_row[bi], c[on_body], rxy[:, 0], rxy[:, 1], su[on_body, 0], su[on_body, 1])
 
     # supports
-    sup_col: dict[str, int] = {}
-    for sname, s in job.supports.items():
-        k = {"pinned": 2, "roller": 1, "fixed": 3}[s.kind]
-        c = unk.take(k, f"support {sname}")
-        sup_col[sname] = c
+    sup_list = list(job.supports.values())
+    ks = np.array([{"pinned": 2, "roller": 1, "fixed": 3}[s.kind] for s in sup_list], dtype=np.intp)
+    c = unk.take_each(ks, lambda: [f"support {s.name}" for s in sup_list])
+    sup_col = dict(zip(job.supports, c.tolist(), strict=True))
+    for k, s in enumerate(sup_list):  # few: one entry set each
+        ck = int(c[k])
         if s.at.pin is not None:
-            r = pin_eq[s.at.pin]
+            r = int(pin_row[pin_ix[s.at.pin]])
             if s.kind == "roller":
-                add(r, c, s.normal[0])
-                add(r + 1, c, s.normal[1])
+                E.add([r, r + 1], ck, [s.normal[0], s.normal[1]])
             else:
-                add(r, c, 1.0)
-                add(r + 1, c + 1, 1.0)
+                E.add([r, r + 1], [ck, ck + 1], 1.0)
         else:
+            bi = body_ix[s.at.body]
+            r = np.array([body_row[bi]])
+            rx, ry = np.asarray(s.at.xy, dtype=float) - ref[bi]
             if s.kind == "roller":
-                force_on_body(s.at.body, s.at.xy, c, None, *s.normal)
+                E.on_body_line(r, ck, rx, ry, s.normal[0], s.normal[1])
             else:
-                force_on_body(s.at.body, s.at.xy, c, c + 1, 0, 0)
+                E.on_body_xy(r, ck, rx, ry)
                 if s.kind == "fixed":
-                    add(body_eq[s.at.body] + 2, c + 2, 1.0)  # reaction moment, unknown M / L
+                    E.add(r + 2, ck + 2, 1.0)  # reaction moment, unknown M / L
 
     # loads: the right-hand side, one column per case
     b = np.zeros((eqs.n, len(cases)))
-    for load in job.loads:
-        j = case_ix[load.case]
-        fx, fy = load.force
-        if load.at.pin is not None and load.body is None:
-            r = pin_eq[load.at.pin]
-            b[r, j] -= fx
-            b[r + 1, j] -= fy
-        else:
-            body = load.body if load.body is not None else load.at.body
-            r = body_eq[body]
-            rx, ry = np.asarray(load.at.xy) - ref[body]
-            b[r, j] -= fx
-            b[r + 1, j] -= fy
-            b[r + 2, j] -= (rx * fy - ry * fx + load.moment) / L
+    on_pin = [ld for ld in job.loads if ld.at.pin is not None and ld.body is None]
+    on_body = [ld for ld in job.loads if not (ld.at.pin is not None and ld.body is None)]
+    if on_pin:
+        r = pin_row[[pin_ix[ld.at.pin] for ld in on_pin]]
+        j = np.array([case_ix[ld.case] for ld in on_pin], dtype=np.intp)
+        f = np.array([ld.force for ld in on_pin], dtype=float)
+        np.subtract.at(b, (r, j), f[:, 0])
+        np.subtract.at(b, (r + 1, j), f[:, 1])
+    if on_body:
+        bi = np.array([body_ix[ld.body if ld.body is not None else ld.at.body] for ld in on_body], dtype=np.intp)
+        r = body_row[bi]
+        j = np.array([case_ix[ld.case] for ld in on_body], dtype=np.intp)
+        f = np.array([ld.force for ld in on_body], dtype=float)
+        mz = np.array([ld.moment for ld in on_body], dtype=float)
+        rxy = _xy(ld.at for ld in on_body) - ref[bi]
+        np.subtract.at(b, (r, j), f[:, 0])
+        np.subtract.at(b, (r + 1, j), f[:, 1])
+        np.subtract.at(b, (r + 2, j), (rxy[:, 0] * f[:, 1] - rxy[:, 1] * f[:, 0] + mz) / L)
 
-    A = sp.csc_matrix((vals, (rows, cols)), shape=(eqs.n, unk.n))
+    rows, cols, vals = E.arrays()
     numbering = dict(
         cases=cases, members=members, L=L, eqs=eqs, unk=unk, pin_body_col=pin_body_col,
-        link_col=link_col, sup_col=sup_col,
+        link_col=link_col, sup_col=sup_col, slots=slots, pb_col=pb_col, pin_xy=pin_xy, pts=pts,
     )
-    return A, b, numbering
+    return rows, cols, vals, (eqs.n, unk.n), b, numbering
+
+
+def assemble(job: Job):
+    """Equilibrium equations ``A x = b`` of the job (A a scipy CSC matrix), with the numbering used."""
+    import scipy.sparse as sp
+
+    rows, cols, vals, shape, b, numbering = _triplets(job)
+    return sp.csc_matrix((vals, (rows, cols)), shape=shape), b, numbering
+
+
+def _dense(rows, cols, vals, shape) -> npt.NDArray[np.float64]:
+    A = np.zeros(shape)
+    np.add.at(A, (rows, cols), vals)
+    return A
 
 
 def _involved(owners: list[str], weights: npt.NDArray[np.float64]) -> str:
     w = np.abs(weights)
     keep = w > 1e-6 * max(w.max(), 1e-300)
     seen: list[str] = []
-    for own, k in zip(owners, keep):
+    for own, k in zip(owners, keep, strict=True):
         if k and own not in seen:
             seen.append(own)
     return ", ".join(seen[:12]) + (" ..." if len(seen) > 12 else "")
 
 
-def _diagnose(job: Job, A: sp.csc_matrix, num) -> None:
-    """Raise a StructureError for a mechanism or an indeterminate structure; return if determinate."""
+def _rank_tol(shape, s: npt.NDArray[np.float64]) -> float:
+    return max(shape) * np.finfo(float).eps * (s[0] if s.size else 1.0) * 1e3
+
+
+def _diagnose(job: Job, A, num) -> None:
+    """Raise a StructureError for a mechanism or an indeterminate structure; return if determinate.
+
+    ``A`` is the equilibrium matrix, sparse or dense. Up to DENSE_RANK_LIMIT unknowns its rank comes
+    from a dense SVD, which also names what is involved; above, only the counts are compared.
+    """
     n_eq, n_unk = A.shape
     eqs, unk = num["eqs"], num["unk"]
     problems: list[Problem] = []
     if max(n_eq, n_unk) <= DENSE_RANK_LIMIT:
-        U, s, Vt = np.linalg.svd(A.toarray())
-        tol = max(A.shape) * np.finfo(float).eps * (s[0] if s.size else 1.0) * 1e3
-        rank = int((s > tol).sum())
+        M = A.toarray() if hasattr(A, "toarray") else np.asarray(A, dtype=float)
+        if n_eq == n_unk:  # the singular values alone settle a determinate frame, the common case
+            s = np.linalg.svd(M, compute_uv=False)
+            if int((s > _rank_tol(M.shape, s)).sum()) == n_eq:
+                return
+        U, s, Vt = np.linalg.svd(M)
+        rank = int((s > _rank_tol(M.shape, s)).sum())
         mech, indet = n_eq - rank, n_unk - rank
         if mech == 0 and indet == 0:
             return
@@ -238,27 +436,55 @@ def _diagnose(job: Job, A: sp.csc_matrix, num) -> None:
             f"for {n_eq} equilibrium equations; remove a redundant support or link")))
 
 
+def _pivot_ratio(lu) -> float:
+    """Smallest over largest pivot of a SuperLU factorization (0 for an empty or zero factor)."""
+    d = np.abs(lu.U.diagonal())
+    top = d.max(initial=0.0)
+    return float(d.min() / top) if top > 0 and np.isfinite(top) else 0.0
+
+
 def solve(job: Job) -> FrameSolution:
     """Solve the frame of ``job`` for every load case.
+
+    A small frame is solved dense: the SVD decides determinacy, one LU solves every case. A large one
+    is factored sparse once (SuperLU) and every case solved with that factor. A sparse factor that
+    fails, or has a pivot that is tiny against the largest, is a sign of a singular system: the dense
+    SVD then decides and says where, when the frame is small enough for it; otherwise it is reported
+    as singular. The equilibrium of every body and pin is checked on the solved forces.
 
     Raises:
         StructureError: a mechanism, an indeterminate structure, or a cable in compression.
     """
-    A, b, num = assemble(job)
-    _diagnose(job, A, num)
+    rows, cols, vals, shape, b, num = _triplets(job)
+    if max(shape) <= DENSE_SOLVE_LIMIT:
+        A = _dense(rows, cols, vals, shape)
+        _diagnose(job, A, num)
+        return _collect(job, np.linalg.solve(A, b) if shape[0] else np.zeros_like(b), num)
+
+    import scipy.sparse as sp
+    import scipy.sparse.linalg as spla
+
+    A = sp.csc_matrix((vals, (rows, cols)), shape=shape)
+    if shape[0] != shape[1]:
+        _diagnose(job, A, num)  # raises: the counts differ
     try:
-        lu = spla.splu(A.tocsc())
+        lu = spla.splu(A)
     except RuntimeError:
-        raise StructureError(Problem(job.path, "", "", (
-            "the equilibrium equations are singular: the structure is a mechanism or indeterminate "
-            "(too large to locate where)"))) from None
-    x = lu.solve(b)
-    return _collect(job, x, num)
+        lu = None
+    n = max(shape)
+    if lu is None or _pivot_ratio(lu) < (PIVOT_SUSPECT if n <= DENSE_RANK_LIMIT else _rank_tol(shape, np.ones(1))):
+        if n > DENSE_RANK_LIMIT:
+            raise StructureError(Problem(job.path, "", "", _SINGULAR))
+        _diagnose(job, A, num)  # raises when the SVD finds the system singular, naming what is involved
+        if lu is None:
+            return _collect(job, np.linalg.solve(A.toarray(), b), num)
+    return _collect(job, lu.solve(b), num)
 
 
 def _collect(job: Job, x: npt.NDArray[np.float64], num) -> FrameSolution:
     cases, members, L = num["cases"], num["members"], num["L"]
     n_case = len(cases)
+    case_ix = {c: j for j, c in enumerate(cases)}
     links = {n: x[c].copy() for n, c in num["link_col"].items()}
 
     supports: dict[str, npt.NDArray[np.float64]] = {}
@@ -274,36 +500,39 @@ def _collect(job: Job, x: npt.NDArray[np.float64], num) -> FrameSolution:
                 r[:, 2] = x[c + 2] * L
         supports[sname] = r
 
-    pin_load = {p: np.zeros((n_case, 2)) for p in job.pins}
-    for load in job.loads:
-        if load.at.pin is not None and load.body is None:
-            pin_load[load.at.pin][cases.index(load.case)] += load.force
+    # every member slot of every pin, one after another: Fm[slot, case] = (Fx, Fy) the member receives;
+    # each pin's forces are a view of its slots
+    sl: _Slots = num["slots"]
+    start = sl.start
+    Fm = np.zeros((int(start[-1]), n_case, 2))
+    if sl.pb_slot.size:
+        cb = num["pb_col"]
+        Fm[sl.pb_slot, :, 0] = x[cb]
+        Fm[sl.pb_slot, :, 1] = x[cb + 1]
+    if sl.s_link:
+        link_list = list(job.links.values())
+        u = _unit(_xy(lk.ends[0] for lk in link_list), _xy(lk.ends[1] for lk in link_list))
+        su = np.array(sl.sign)[:, None] * u[sl.l_link]  # (slot, 2)
+        T = x[[num["link_col"][link_list[i].name] for i in sl.l_link]]  # (slot, case)
+        # the pin receives T*u*s from the link, so the link receives the opposite
+        Fm[sl.s_link] = -(T[:, :, None] * su[:, None, :])
+    if sl.s_gnd:
+        R = np.stack(list(supports.values()))  # (support, case, 3)
+        Fm[sl.s_gnd] = -R[sl.g_sup][:, :, :2]
+    if sl.s_load:
+        pin_ix = {p: k for k, p in enumerate(job.pins)}
+        pin_load = np.zeros((len(pin_ix), n_case, 2))
+        hung = [ld for ld in job.loads if ld.at.pin is not None and ld.body is None]
+        np.add.at(pin_load, ([pin_ix[ld.at.pin] for ld in hung], [case_ix[ld.case] for ld in hung]),
+                  np.array([ld.force for ld in hung], dtype=float))
+        Fm[sl.s_load] = -pin_load[sl.p_load]
 
-    pins: dict[str, PinForces] = {}
-    for pname, pin in job.pins.items():
-        mem = members[pname]
-        f = np.zeros((n_case, len(mem), 2))
-        for k, m in enumerate(mem):
-            if m in pin.bodies:
-                c = num["pin_body_col"][(pname, m)]
-                f[:, k, 0], f[:, k, 1] = x[c], x[c + 1]
-            elif m in job.links:
-                link = job.links[m]
-                a, bb = link.ends
-                d = np.subtract(bb.xy, a.xy)
-                u = d / np.hypot(*d)
-                s = 1.0 if a.pin == pname else -1.0
-                # the pin receives T*u*s from the link, so the link receives the opposite
-                f[:, k, :] = -np.outer(links[m], s * u)
-            elif m == GROUND:
-                sname = next(n for n, s in job.supports.items() if s.at.pin == pname)
-                f[:, k, :] = -supports[sname][:, :2]
-            elif m == PIN_LOAD:
-                f[:, k, :] = -pin_load[pname]
-        pins[pname] = PinForces(pname, tuple(mem), f)
+    F = Fm.transpose(1, 0, 2)  # (case, slot, 2)
+    pins = {pname: PinForces(pname, tuple(members[pname]), F[:, start[k]:start[k + 1]])
+            for k, pname in enumerate(job.pins)}
 
     sol = FrameSolution(cases, pins, links, supports, residual=0.0)
-    residual = equilibrium_residual(job, sol)
+    residual = _residual(job, sol, Fm, (sl.pb_slot, sl.pb_body, num["pin_xy"][sl.pb_pin]), num["pts"])
     if not residual <= RESIDUAL_TOL:
         raise StructureError(Problem(job.path, "", "", (
             f"the solution does not satisfy equilibrium (relative residual {residual:.2e} > "
@@ -312,13 +541,15 @@ def _collect(job: Job, x: npt.NDArray[np.float64], num) -> FrameSolution:
     for lname, link in job.links.items():
         if link.kind != "cable":
             continue
-        scale = max(np.abs(links[lname]).max(), 1.0)
-        for j, t in enumerate(links[lname]):
-            if t < -1e-9 * scale:
-                raise StructureError(Problem(job.path, f"link.{lname}", "kind", (
-                    f"cable {lname} would be in compression ({t / 1e3:.6g} kN) in load case "
-                    f"'{cases[j]}': a cable carries tension only; make it a link (kind = \"link\") "
-                    f"or change the structure")))
+        t = links[lname]
+        scale = max(np.abs(t).max(), 1.0)
+        slack = np.flatnonzero(t < -1e-9 * scale)
+        if slack.size:
+            j = int(slack[0])
+            raise StructureError(Problem(job.path, f"link.{lname}", "kind", (
+                f"cable {lname} would be in compression ({t[j] / 1e3:.6g} kN) in load case "
+                f"'{cases[j]}': a cable carries tension only; make it a link (kind = \"link\") "
+                f"or change the structure")))
     return FrameSolution(cases, pins, links, supports, residual)
 
 
@@ -329,54 +560,89 @@ def equilibrium_residual(job: Job, sol: FrameSolution) -> float:
     mistake cannot hide: every body sums what its pins, links, supports and loads put on it.
     """
     n_case = len(sol.cases)
-    F = {b: np.zeros((n_case, 3)) for b in job.bodies}  # Fx, Fy, Mz about the origin
-    P = {p: np.zeros((n_case, 2)) for p in job.pins}
+    forces = [pf.force.transpose(1, 0, 2) for pf in sol.pins.values()]
+    Fm = np.concatenate(forces) if forces else np.zeros((0, n_case, 2))
+    body_ix = {b: i for i, b in enumerate(job.bodies)}
+    on_body = [(i, body_ix[m], job.pins[pf.pin].xy)
+               for i, (pf, m) in enumerate((pf, m) for pf in sol.pins.values() for m in pf.members) if m in body_ix]
+    slot = np.array([i for i, _, _ in on_body], dtype=np.intp)
+    body = np.array([bi for _, bi, _ in on_body], dtype=np.intp)
+    xy = np.array([xy for _, _, xy in on_body], dtype=float).reshape(-1, 2)
+    pts = np.array([xy for b in job.bodies.values() for xy in b.points.values()], dtype=float).reshape(-1, 2)
+    return _residual(job, sol, Fm, (slot, body, xy), pts)
 
-    def put(body: str, xy, f, m=0.0) -> None:
-        F[body][:, 0] += f[:, 0]
-        F[body][:, 1] += f[:, 1]
-        F[body][:, 2] += xy[0] * f[:, 1] - xy[1] * f[:, 0] + m
 
-    for pname, pf in sol.pins.items():
-        xy = job.pins[pname].xy
-        for k, m in enumerate(pf.members):
-            P[pname] -= pf.force[:, k, :]
-            if m in job.bodies:
-                put(m, xy, pf.force[:, k, :])
+def _residual(job: Job, sol: FrameSolution, Fm: npt.NDArray[np.float64], on_body, pts) -> float:
+    """equilibrium_residual from the pins' forces one member slot after another, ``Fm`` (slot, case, 2),
+    ``on_body`` = (slot, body index, pin x y) of every slot whose member is a body, and every body point.
+    """
+    n_case = len(sol.cases)
+    case_ix = {c: j for j, c in enumerate(sol.cases)}
+    body_ix = {b: i for i, b in enumerate(job.bodies)}
+    n_body = len(body_ix)
+    pin_list = list(sol.pins.values())
+
+    # each pin: the opposite of what it gives its members
+    slot_pin = np.repeat(np.arange(len(pin_list)), [len(pf.members) for pf in pin_list])
+    P = -_group_sum(Fm, slot_pin, len(pin_list))
+
+    # each body: Fx, Fy and Mz about the origin of every force on it, item by item (item, case, 3):
+    # what its pins give it, then its links, its supports
+    items: list[npt.NDArray[np.float64]] = []
+    who: list[npt.NDArray[np.intp]] = []
+    slot, body, xy = on_body
+    if slot.size:
+        f = Fm[slot]
+        it = np.empty((len(slot), n_case, 3))
+        it[:, :, :2] = f
+        it[:, :, 2] = xy[:, 0, None] * f[:, :, 1] - xy[:, 1, None] * f[:, :, 0] + 0.0
+        items.append(it)
+        who.append(body)
     for lname, link in job.links.items():
         a, b = link.ends
         d = np.subtract(b.xy, a.xy)
         u = d / np.hypot(*d)
         for end, s in ((a, 1.0), (b, -1.0)):
-            f = np.outer(sol.links[lname], s * u)
             if end.pin is None:
-                put(end.body, end.xy, f)
+                f = np.outer(sol.links[lname], s * u)
+                it = np.empty((1, n_case, 3))
+                it[0, :, :2] = f
+                it[0, :, 2] = end.xy[0] * f[:, 1] - end.xy[1] * f[:, 0] + 0.0
+                items.append(it)
+                who.append(np.array([body_ix[end.body]], dtype=np.intp))
     for sname, s in job.supports.items():
         if s.at.pin is None:
-            put(s.at.body, s.at.xy, sol.supports[sname][:, :2], sol.supports[sname][:, 2])
-    for load in job.loads:
-        j = sol.cases.index(load.case)
-        f = np.zeros((n_case, 2))
-        f[j] = load.force
-        mz = np.zeros(n_case)
-        mz[j] = load.moment
-        if load.at.pin is not None and load.body is None:
-            continue  # a pin's own load is one of its members ("load") and already in P
-        put(load.body or load.at.body, load.at.xy, f, mz)
+            r = sol.supports[sname]
+            it = np.empty((1, n_case, 3))
+            it[0, :, :2] = r[:, :2]
+            it[0, :, 2] = s.at.xy[0] * r[:, 1] - s.at.xy[1] * r[:, 0] + r[:, 2]
+            items.append(it)
+            who.append(np.array([body_ix[s.at.body]], dtype=np.intp))
+    F = (_group_sum(np.concatenate(items), np.concatenate(who), n_body) if items
+         else np.zeros((n_body, n_case, 3)))
+    # loads on bodies, each in its own case (a pin's own load is one of its members and already in P)
+    loads = [ld for ld in job.loads if not (ld.at.pin is not None and ld.body is None)]
+    if loads:
+        bi = [body_ix[ld.body or ld.at.body] for ld in loads]
+        j = [case_ix[ld.case] for ld in loads]
+        f = np.array([ld.force for ld in loads], dtype=float)
+        X, Y = _xy(ld.at for ld in loads).T
+        m = np.array([ld.moment for ld in loads], dtype=float)
+        np.add.at(F, (bi, j, 0), f[:, 0])
+        np.add.at(F, (bi, j, 1), f[:, 1])
+        np.add.at(F, (bi, j, 2), X * f[:, 1] - Y * f[:, 0] + m)
 
-    xs = np.asarray([xy for b in job.bodies.values() for xy in b.points.values()])
-    L = max(float(np.abs(xs).max()), 1e-9)
+    L = max(float(np.abs(pts).max(initial=0.0)), 1e-9)
+    ld_f = np.array([ld.force for ld in job.loads], dtype=float).reshape(-1, 2)
+    ld_m = np.array([ld.moment for ld in job.loads], dtype=float)
     scale = max(
-        [np.abs(pf.force).max(initial=0.0) for pf in sol.pins.values()]
-        + [np.abs(t).max(initial=0.0) for t in sol.links.values()]
-        + [np.abs(r[:, :2]).max(initial=0.0) for r in sol.supports.values()]
-        + [float(np.hypot(*ld.force)) for ld in job.loads]
-        + [abs(ld.moment) / L for ld in job.loads]
-        + [1e-300]
+        np.abs(Fm).max(initial=0.0),
+        max((np.abs(t).max(initial=0.0) for t in sol.links.values()), default=0.0),
+        max((np.abs(r[:, :2]).max(initial=0.0) for r in sol.supports.values()), default=0.0),
+        np.hypot(ld_f[:, 0], ld_f[:, 1]).max(initial=0.0),
+        np.abs(ld_m).max(initial=0.0) / L,
+        1e-300,
     )
-    worst = 0.0
-    for f in F.values():
-        worst = max(worst, np.abs(f[:, :2]).max(initial=0.0), np.abs(f[:, 2]).max(initial=0.0) / L)
-    for p in P.values():
-        worst = max(worst, np.abs(p).max(initial=0.0))
-    return worst / scale
+    worst = max(np.abs(F[:, :, :2]).max(initial=0.0), np.abs(F[:, :, 2]).max(initial=0.0) / L,
+                np.abs(P).max(initial=0.0))
+    return float(worst / scale)
