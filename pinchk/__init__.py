@@ -18,11 +18,12 @@ def load_job(path):
 def run(job):
     """Solve the frame of ``job`` (a Job or a path to a job file) and check every pin: Results."""
     from .checks import run_checks
+    from .combine import combine
     from .frame import solve
 
     if not hasattr(job, "pins"):
         job = load_job(job)
-    return run_checks(job, solve(job))
+    return run_checks(*combine(job, solve(job)))
 
 
 def __getattr__(name):
