@@ -79,3 +79,17 @@ def force_rows(results):
                 ang = math.degrees(math.atan2(fy, fx)) if mag > 0 else 0.0
                 out.append((case, pname, m, fx, fy, mag, ang))
     return out
+
+
+def combination_lines(results) -> list[str]:
+    """The job's combinations and lift factors, one line each (nothing when it gives none)."""
+    from ..combine import combination_text
+
+    job = results.job
+    out = [f"combination {n}: {combination_text(c)} ({c.limit_state})" for n, c in job.combinations.items()]
+    for sf in job.stack_factors:
+        where = [f"{k} {', '.join(v)}" for k, v in (("combinations", sf.combinations), ("pins", sf.pins),
+                                                    ("members", sf.members)) if v is not None]
+        out.append(f"lift factor {sf.name} = {sf.value:g} on the forces, "
+                   + ("; ".join(where) if where else "everywhere") + (f" ({sf.note})" if sf.note else ""))
+    return out

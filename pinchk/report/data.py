@@ -8,7 +8,7 @@ import json
 
 from .. import __version__
 from . import CAUTION
-from .common import convert, force_rows, unit_of, units_of, verdict
+from .common import convert, force_rows, governing_by_check, unit_of, units_of, verdict
 
 CSV_COLUMNS = ("pin", "part", "check", "case", "demand", "capacity", "unit", "utilization", "status", "clause",
                "formula", "factors", "note")
@@ -43,6 +43,12 @@ def to_dict(results) -> dict:
         "units": {k: unit_of(k, units) for k in ("force", "moment", "length", "stress")},
         "verdict": verdict(results),
         "governing": governing,
+        "governing_by_check": [{k: rows[i][k] for k in ("pin", "part", "check", "case", "utilization", "status")}
+                               for i in governing_by_check(results)],
+        "combinations": {n: {"cases": c.factors, "description": c.description, "limit_state": c.limit_state}
+                         for n, c in results.job.combinations.items()},
+        "lift_factors": [{"name": sf.name, "value": sf.value, "combinations": sf.combinations, "pins": sf.pins,
+                          "members": sf.members, "note": sf.note} for sf in results.job.stack_factors],
         "checks": rows,
         "joint_forces": [
             {"case": c, "pin": p, "member": m, "fx": convert(fx, "force", units), "fy": convert(fy, "force", units),
@@ -58,6 +64,7 @@ def to_dict(results) -> dict:
         "equilibrium_residual": sol.residual,
         "unchecked_pins": list(results.unchecked),
         "assumptions": list(results.assumptions),
+        "warnings": list(getattr(results, "warnings", ())),
         "caution": CAUTION,
     }
 

@@ -5,7 +5,7 @@ from __future__ import annotations
 from tabulate import tabulate
 
 from . import CAUTION
-from .common import convert, fmt, force_rows, governing_by_check, unit_of, units_of, verdict
+from .common import combination_lines, convert, fmt, force_rows, governing_by_check, unit_of, units_of, verdict
 
 
 def render_table(results, all_cases: bool = False, forces: bool = True) -> str:
@@ -16,6 +16,7 @@ def render_table(results, all_cases: bool = False, forces: bool = True) -> str:
     out.append(f"method: {method}, {results.edition}")
     out.append("factors: " + ", ".join(f"{k} = {v:g}" for k, v in results.factors.items()))
     out.append(f"solver: {results.solution.solver}; equilibrium residual {results.solution.residual:.1e}")
+    out += combination_lines(results)
     out.append("")
     if forces:
         fu = unit_of("force", units)
@@ -61,6 +62,8 @@ def render_table(results, all_cases: bool = False, forces: bool = True) -> str:
         out.append("not checked (no stack of plates given): pins " + ", ".join(results.unchecked))
     for note in results.assumptions:
         out.append(f"assumed: {note}")
+    for w in getattr(results, "warnings", ()):
+        out.append(f"WARNING: {w}")
     out.append("")
     out.append(verdict(results))
     out.append(f"caution: {CAUTION}")
