@@ -10,6 +10,7 @@ import math
 
 from . import bolts
 from .model import Combination, Material, StackFactor
+from .units import to_si
 
 COMBINATION_KEYS = {"cases", "description", "limit_state"}
 STACK_FACTOR_KEYS = {"value", "combinations", "pins", "members", "note"}
@@ -126,7 +127,7 @@ def bolt_material(r, where: str, t: dict, d: float) -> tuple[bolts.BoltGrade | N
         r.bad(where, "bolt", f"{g.label} specifies no yield strength, and the pin's bending and bearing checks "
               "need one: use a grade with a specified yield, or give the pin a [material] of your own")
         return g, None
-    E = 29000 * 6.894757e6 if g.thread == "unified" else 210e9
+    E = to_si(29000, "stress", "ksi") if g.thread == "unified" else 210e9
     return g, Material(f"bolt {g.label}", g.fy_nom, g.fu_nom, E, g.source)
 
 

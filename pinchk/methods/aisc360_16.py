@@ -33,7 +33,7 @@ FACTORS = {
     "phi_bv": (0.75, "φ, shear of a bolt used as a pin, §J3.6"),
     "omega_bv": (2.00, "Ω, shear of a bolt used as a pin, §J3.6"),
 }
-KSI = 6.894757e6
+KSI = 1000 * 4.4482216152605 / 0.0254**2  # Pa: 1000 lbf/in², exact by definition
 #: Table J3.2 Fnv [Pa], (threads included in the plane N, excluded X) [seen for 360-10 and 360-16].
 FNV = {"A307": (27 * KSI, 27 * KSI), "A325": (54 * KSI, 68 * KSI), "A490": (68 * KSI, 84 * KSI),
        "A325M": (54 * KSI, 68 * KSI), "A490M": (68 * KSI, 84 * KSI)}
