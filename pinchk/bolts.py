@@ -16,7 +16,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
-from functools import lru_cache
+from functools import cache
 
 from .materials import read_rows
 from .units import to_si
@@ -63,7 +63,7 @@ def _opt(text: str, unit: str, dim: str) -> float | None:
     return to_si(float(text), dim, unit) if text.strip() else None
 
 
-@lru_cache(maxsize=None)
+@cache
 def grades() -> tuple[BoltGrade, ...]:
     """Every row of data/bolt_grades.csv, in file order."""
     out = []
@@ -107,7 +107,7 @@ def grade_at(name: str, d: float) -> BoltGrade:
                      f"{rows[-1].size_max / k:g} {unit}, not {d / k:g} {unit}")
 
 
-@lru_cache(maxsize=None)
+@cache
 def thread_sizes() -> tuple[ThreadSize, ...]:
     out = []
     for r in read_rows("thread_sizes.csv"):

@@ -24,7 +24,7 @@ import numpy as np
 
 from .errors import Problem, StructureError
 from .frame import FrameSolution, PinForces, equilibrium_residual
-from .model import Case, Combination, Job, Load, StackFactor
+from .model import Case, Combination, Job, StackFactor
 
 #: The factors of the stack a job may give, with what each is for (all default to 1.0, common practice).
 STACK_FACTORS = {
@@ -68,8 +68,7 @@ def combine(job: Job, sol: FrameSolution) -> tuple[Job, FrameSolution]:
     pins = {p: PinForces(p, pf.members, np.einsum("kc,cmx->kmx", W, pf.force)) for p, pf in sol.pins.items()}
     links = {n: W @ t for n, t in sol.links.items()}
     supports = {n: W @ r for n, r in sol.supports.items()}
-    loads = tuple(replace(ld, case=name, force=(ld.force[0] * comb.factors[ld.case], ld.force[1] * comb.factors[ld.case]),
-                          moment=ld.moment * comb.factors[ld.case])
+    loads = tuple(_scaled(ld, name, comb.factors[ld.case])
                   for name, comb in combos.items() for ld in job.loads if ld.case in comb.factors)
     cases = {n: Case(n, c.description or combination_text(c), c.limit_state) for n, c in combos.items()}
     job2 = replace(job, cases=cases, loads=loads)
@@ -88,6 +87,11 @@ def combine(job: Job, sol: FrameSolution) -> tuple[Job, FrameSolution]:
                     f"cable {lname} would be in compression ({t / 1e3:.6g} kN) in combination '{names[k]}': "
                     f"a cable carries tension only; change the combination's factors or make it a link")))
     return job2, FrameSolution(names, pins, links, supports, residual, sol2.solver)
+
+
+def _scaled(ld, case: str, k: float):
+    """A load moved into combination ``case``, times its factor ``k``."""
+    return replace(ld, case=case, force=(ld.force[0] * k, ld.force[1] * k), moment=ld.moment * k)
 
 
 def _applies(sf: StackFactor, comb: str, pin: str, members: set[str]) -> bool:

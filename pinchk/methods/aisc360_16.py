@@ -44,8 +44,8 @@ FNV_RATIO = (0.450, 0.563)
 
 def fnv(grades, fu):
     """Fnv with the thread included (N) and excluded (X) [Pa] by grade (Table J3.2)."""
-    n = np.array([FNV[g][0] if g in FNV else FNV_RATIO[0] * u for g, u in zip(grades, fu)], float)
-    x = np.array([FNV[g][1] if g in FNV else FNV_RATIO[1] * u for g, u in zip(grades, fu)], float)
+    n = np.array([FNV[g][0] if g in FNV else FNV_RATIO[0] * u for g, u in zip(grades, fu, strict=True)], float)
+    x = np.array([FNV[g][1] if g in FNV else FNV_RATIO[1] * u for g, u in zip(grades, fu, strict=True)], float)
     return n, x
 BE_ADD = 0.016  # §D5.1: be = 2t + 0.63 in (2t + 16 mm); the SI 16 mm is the smaller, used for both
 ROT_CLEARANCE = 0.0254 / 32  # §D5.2: hole at most 1/32 in (1 mm) over the pin; the smaller 1/32 in used
