@@ -164,7 +164,8 @@ def run_checks(job: Job, sol: FrameSolution) -> Results:
             cols["status"] += ["pass" if u <= 1.0 else "FAIL" for u in util]
             cols["clause"] += [ch.clause] * k
             cols["formula"] += [ch.formula] * k
-            cols["factors"] += [ch.factors + ("; " if ch.factors and s else "") + s for s in stack_text[mask]]
+            stack = stack_text[mask] if ch.uses_forces else [""] * k
+            cols["factors"] += [ch.factors + ("; " if ch.factors and s else "") + s for s in stack]
             cols["note"] += [ch.note] * k
 
     if pin_lab:

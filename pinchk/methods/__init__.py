@@ -38,13 +38,15 @@ class Check:
     factors: str
     mask: npt.NDArray[np.bool_] | None = None
     note: str = ""
+    uses_forces: bool = True  # False for a detailing rule the forces do not enter (no load factors apply)
 
 
-def make_check(name, clause_formula, kind, demand, capacity, factors, mask=None, note="") -> Check:
+def make_check(name, clause_formula, kind, demand, capacity, factors, mask=None, note="",
+               uses_forces=True) -> Check:
     """A Check from "clause: formula" text and array-likes (the form the method modules write)."""
     clause, _, formula = clause_formula.partition(": ")
     return Check(name, clause, formula, kind, np.asarray(demand, float), np.asarray(capacity, float),
-                 factors, mask, note)
+                 factors, mask, note, uses_forces)
 
 
 METHODS = {

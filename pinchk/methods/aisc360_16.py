@@ -114,8 +114,8 @@ def plate_checks(Q, f, variant="ASD"):
         _check("bearing", "AISC 360-16 §J7: Rn = 1.8 Fy Apb, Apb = t d (Fy the lower of plate and pin)",
                "force", F, c_br, f_br),
         _check("gross yielding", "AISC 360-16 §D5.1(d), §D2(a): Pn = Fy Ag, Ag = t w", "force", F, c_ty, f_ty),
-        _check("end distance", "AISC 360-16 §D5.2: a ≥ 1.33 be", "length", 1.33 * be, a, ""),
-        _check("width", "AISC 360-16 §D5.2: w ≥ 2 be + d", "length", 2 * be + d, Q["width"], ""),
+        _check("end distance", "AISC 360-16 §D5.2: a ≥ 1.33 be", "length", 1.33 * be, a, "", uses_forces=False),
+        _check("width", "AISC 360-16 §D5.2: w ≥ 2 be + d", "length", 2 * be + d, Q["width"], "", uses_forces=False),
         _check("hole clearance (rotating)", "AISC 360-16 §D5.2: d0 ≤ d + 1/32 in (1 mm) where the pin turns "
-               "under load", "length", d0 - d, np.full_like(d, ROT_CLEARANCE), "", Q["rot"]),
+               "under load", "length", d0 - d, np.full_like(d, ROT_CLEARANCE), "", Q["rot"], uses_forces=False),
     ]

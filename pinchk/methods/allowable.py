@@ -89,7 +89,8 @@ def pin_checks(P, f, variant=None):
         _check("pin bending", _clause("pin_bending"), "stress", P["M"] / Wel, sig, fb),
         _check("pin secured", "common practice: the pin is retained against working loose (1 = not stated "
                "secured)", "ratio", np.where(secured, 0.0, 1.0), np.where(secured, 1.0, 0.0), "", None,
-               "state secured = true for the pin once it is retained (cotter pin, keeper plate, nut)"),
+               "state secured = true for the pin once it is retained (cotter pin, keeper plate, nut)",
+               uses_forces=False),
     ]
 
 
@@ -107,5 +108,5 @@ def plate_checks(Q, f, variant=None):
         _check("net tension", _clause("net_tension"), "stress", F / (t * (Q["width"] - d0)), s_nt, f_nt),
         _check("tear-out", _clause("tear_out"), "stress", F / (2 * t * (Q["a_end"] - d0 / 2)), s_to, f_to),
         _check("pin-to-hole clearance", "common practice: Dh − Dp ≤ (clearance_max − 1) Dp", "length", d0 - d,
-               (f["clearance_max"] - 1) * d, f"clearance_max = {f['clearance_max']:g}"),
+               (f["clearance_max"] - 1) * d, f"clearance_max = {f['clearance_max']:g}", uses_forces=False),
     ]

@@ -138,7 +138,8 @@ def pin_checks(P, f, variant="A"):
                "moment", P["M"], Fb * S, cat),
         _check("pin secured", "ASME BTH-1-2017 §3-3.3 (from memory): the pin is retained against working loose "
                "(1 = not stated secured)", "ratio", np.where(secured, 0.0, 1.0), np.where(secured, 1.0, 0.0), "",
-               None, "state secured = true for the pin once it is retained (cotter pin, keeper plate, nut)"),
+               None, "state secured = true for the pin once it is retained (cotter pin, keeper plate, nut)",
+               uses_forces=False),
     ]
 
 
@@ -179,5 +180,5 @@ def plate_checks(Q, f, variant="A"):
                "load (from memory)", "force", F, Fp * Dp * t, cat, rot),
         _check("pin-to-hole clearance", "ASME BTH-1-2017 §3-3.3.4: Dh − Dp ≤ 0.10 Dp, i.e. Dh ≤ 1.10 Dp "
                "(from memory, LOW confidence)", "length", Dh - Dp, (f["clearance_max"] - 1) * Dp,
-               f"clearance_max = {f['clearance_max']:g}"),
+               f"clearance_max = {f['clearance_max']:g}", uses_forces=False),
     ]

@@ -111,5 +111,5 @@ def plate_checks(Q, f, variant=None):
         _check("thickness (type B)", "EN 1993-1-8 Table 3.9 B: t ≥ 0.7 √(FEd γM0 / fy)", "length",
                t_min_b, t, f"γM0 = {g0:g}", type_b, "outline of the Table 3.9 B figure assumed"),
         _check("hole to thickness (type B)", "EN 1993-1-8 Table 3.9 B: d0 ≤ 2.5 t", "length", d0, 2.5 * t,
-               "", type_b),
+               "", type_b, uses_forces=False),
     ]

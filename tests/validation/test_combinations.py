@@ -267,3 +267,12 @@ def test_cable_in_compression_in_a_combination_is_an_input_error():
                         '[link.tie]\nends = ["wall.W", "P_tip"]\nkind = "cable"')
     with pytest.raises(StructureError, match="cable tie would be in compression .* combination 'up'"):
         run(job_of(text))
+
+
+def test_detailing_rows_carry_no_load_factors():
+    res = run(job_of(frame(COMBOS + "\n[lift_factors]\ndynamic = 1.25\n")))
+    for r in res.rows():
+        if r["check"] in ("pin-to-hole clearance", "pin secured"):
+            assert "dynamic" not in r["factors"] and "lift" not in r["factors"]
+        else:
+            assert "dynamic 1.25" in r["factors"]
