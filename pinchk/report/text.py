@@ -52,7 +52,8 @@ def render_table(results, all_cases: bool = False, forces: bool = True) -> str:
         rows.append((c["pin"][i], c["part"][i], c["check"][i], c["case"][i],
                      fmt(convert(c["demand"][i], kind, units)), fmt(convert(c["capacity"][i], kind, units)),
                      unit_of(kind, units), f"{c['utilization'][i]:.3f}", c["status"][i], c["clause"][i]))
-    title = "Checks, every case" if all_cases else "Checks, governing case of each (highest first)"
+    what = "combination" if job.combinations else "case"
+    title = f"Checks, every {what}" if all_cases else f"Checks, governing {what} of each (highest first)"
     if rows:
         out.append(title)
         out.append(tabulate(rows, headers=["pin", "part", "check", "case", "demand", "capacity", "unit", "util",
