@@ -58,17 +58,17 @@ def combinations(r, data: dict, cases: dict) -> dict[str, Combination]:
     return out
 
 
-def _names(r, where: str, field: str, v, known, what: str) -> tuple[str, ...] | None:
+def _names(bad, field: str, v, known, what: str) -> tuple[str, ...] | None:
     from .jobfile import suggest
 
     if v is None:
         return None
     if not isinstance(v, list) or not v or not all(isinstance(x, str) for x in v):
-        r.bad(where, field, f"expected a list of {what} names, e.g. {field} = [\"...\"], got {v!r}")
+        bad(field, f"expected a list of {what} names, e.g. {field} = [\"...\"], got {v!r}")
         return None
     for x in v:
         if x not in known:
-            r.bad(where, field, f"there is no {what} '{x}'{suggest(x, known)}; {what}s: {', '.join(known)}")
+            bad(field, f"there is no {what} '{x}'{suggest(x, known)}; {what}s: {', '.join(known)}")
     return tuple(v)
 
 
@@ -87,21 +87,28 @@ def stack_factors(r, data: dict, combos: dict, cases: dict, pins: dict, members:
                   f"{', '.join(STACK_FACTORS)}")
             continue
         t = v if isinstance(v, dict) else {"value": v}
+        own_table = f"[lift_factors.{name}]" in r.text.replace(" ", "")
+
+        def bad(sub, message, name=name, own_table=own_table, inline=isinstance(v, dict)):
+            # a table of its own: [lift_factors.NAME] field SUB; an inline value: [lift_factors] field NAME
+            if own_table:
+                r.bad(f"lift_factors.{name}", sub, message)
+            else:
+                r.bad("lift_factors", name, f"{sub}: {message}" if inline else message)
+
         for k in t:
             if k not in STACK_FACTOR_KEYS:
-                r.bad(f"{where}.{name}", k, f"unknown field '{k}'{suggest(k, STACK_FACTOR_KEYS)}; fields here "
-                      f"are: {', '.join(sorted(STACK_FACTOR_KEYS))}")
+                bad(k, f"unknown field '{k}'{suggest(k, STACK_FACTOR_KEYS)}; fields here are: "
+                    f"{', '.join(sorted(STACK_FACTOR_KEYS))}")
         val = t.get("value")
         if not _number(val) or val <= 0:
-            r.bad(f"{where}.{name}" if isinstance(v, dict) else where, "value" if isinstance(v, dict) else name,
-                  f"a factor must be a finite number greater than zero, got {val!r}")
+            bad("value", f"a factor must be a finite number greater than zero, got {val!r}")
             continue
-        w = f"{where}.{name}"
         out.append(StackFactor(
             name, float(val),
-            _names(r, w, "combinations", t.get("combinations"), comb_names, "combination"),
-            _names(r, w, "pins", t.get("pins"), list(pins), "pin"),
-            _names(r, w, "members", t.get("members"), sorted(members), "member"),
+            _names(bad, "combinations", t.get("combinations"), comb_names, "combination"),
+            _names(bad, "pins", t.get("pins"), list(pins), "pin"),
+            _names(bad, "members", t.get("members"), sorted(members), "member"),
             str(t.get("note", ""))))
     return tuple(out)
 

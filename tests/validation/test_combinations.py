@@ -245,8 +245,10 @@ def test_stack_factor_on_a_job_without_combinations():
     ("[combination.c]\ndescription = \"no cases\"", "combination.c", "missing or empty"),
     ("[lift_factors]\ndynamc = 1.2", "lift_factors", "did you mean 'dynamic'"),
     ("[lift_factors]\ndynamic = -1", "lift_factors", "greater than zero"),
-    ("[lift_factors]\nskew = { value = 1.2, pins = [\"P_tp\"] }", "lift_factors.skew", "did you mean 'P_tip'"),
-    ("[lift_factors]\nskew = { value = 1.2, combinations = [\"lift\"] }", "lift_factors.skew", "no combination 'lift'"),
+    ("[lift_factors]\nskew = { value = 1.2, pins = [\"P_tp\"] }", "lift_factors", "pins: there is no pin 'P_tp' "
+     "(did you mean 'P_tip'?)"),
+    ("[lift_factors]\nskew = { value = 1.2, combinations = [\"lift\"] }", "lift_factors", "no combination 'lift'"),
+    ("[lift_factors.skew]\nvalue = 1.2\nmembers = [\"tei\"]", "lift_factors.skew", "did you mean 'tie'"),
 ])
 def test_input_errors_name_table_and_field(extra, where, words):
     text = frame(extra)
