@@ -88,8 +88,9 @@ def stack_factors(r, data: dict, combos: dict, cases: dict, pins: dict, members:
             continue
         t = v if isinstance(v, dict) else {"value": v}
         own_table = f"[lift_factors.{name}]" in r.text.replace(" ", "")
+        inline = isinstance(v, dict)
 
-        def bad(sub, message, name=name, own_table=own_table, inline=isinstance(v, dict)):
+        def bad(sub, message, name=name, own_table=own_table, inline=inline):
             # a table of its own: [lift_factors.NAME] field SUB; an inline value: [lift_factors] field NAME
             if own_table:
                 r.bad(f"lift_factors.{name}", sub, message)
