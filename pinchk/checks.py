@@ -87,7 +87,7 @@ def run_checks(job: Job, sol: FrameSolution) -> Results:
 
     stacks: dict[str, StackResult] = {}
     P = {k: [] for k in ("d", "fup", "fyp", "V", "M", "uls", "ser", "bolt", "grade", "As", "V_shank", "V_thread",
-                         "secured", "rot", "stack_text")}
+                         "secured", "rot", "stack_text", "shank_planes", "thread_planes")}
     Q = {k: [] for k in ("F", "t", "d", "d0", "fy", "fu", "fyp", "fup", "E", "a_end", "width", "type_b", "rot",
                          "uls", "ser", "stiffened", "stack_text")}
     warnings: list[str] = []
@@ -115,6 +115,9 @@ def run_checks(job: Job, sol: FrameSolution) -> Results:
         P["As"].append(np.full(nc, bolt.As if bolt else np.pi * pin.diameter**2 / 4))
         P["V_shank"].append(V_sh * sfac)
         P["V_thread"].append(V_th * sfac)
+        n_thread = len(bolt.thread_planes) if bolt else 0
+        P["shank_planes"].append(np.full(nc, n_thread < len(pin.stack) - 1))
+        P["thread_planes"].append(np.full(nc, n_thread > 0))
         P["secured"].append(np.full(nc, pin.secured))
         P["rot"].append(np.full(nc, pin.rotates))
         P["stack_text"].append(np.array(txt, dtype=object))

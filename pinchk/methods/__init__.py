@@ -7,7 +7,8 @@ Nothing in a method module knows about files, units or output.
 
 Optional pin columns a module may use (checks.py always provides them): bolt (the pin is a bolt),
 grade (its grade name, "" for a pin), As (thread stress area), V_shank and V_thread (the largest shear on
-a plane through the shank / through the thread; 0 where there is none), secured, rot. Plate columns
+a plane through the shank / through the thread; 0 where there is none), shank_planes and thread_planes
+(some plane cuts the shank / the thread), secured, rot. Plate columns
 add fup (pin ultimate strength) and stiffened (against dishing).
 """
 

@@ -77,6 +77,7 @@ def pin_checks(P, f, variant="ASD"):
     n = d.shape[0]
     bolt = P.get("bolt", np.zeros(n, bool))
     V_sh, V_th = P.get("V_shank", P["V"]), P.get("V_thread", np.zeros(n))
+    shank, thread = P.get("shank_planes", np.ones(n, bool)), P.get("thread_planes", np.zeros(n, bool))
     fnv_n, fnv_x = fnv(P.get("grade", [""] * n), P["fup"])
     c_x, f_x = _resistance(fnv_x * A, f, "bv", variant)
     c_n, f_n = _resistance(fnv_n * A, f, "bv", variant)
@@ -84,9 +85,9 @@ def pin_checks(P, f, variant="ASD"):
         _check("pin shear", "common practice (no AISC 360 clause): Vn = 0.6 Fu A per shear plane", "force",
                P["V"], Vc, fv, ~bolt),
         _check("bolt shear (shank)", "AISC 360-16 §J3.6, Table J3.2: Rn = Fnv Ab, Fnv threads excluded (X)",
-               "force", V_sh, c_x, f_x, bolt & (V_sh > 0)),
+               "force", V_sh, c_x, f_x, bolt & shank),
         _check("bolt shear (thread)", "AISC 360-16 §J3.6, Table J3.2: Rn = Fnv Ab, Fnv threads included (N)",
-               "force", V_th, c_n, f_n, bolt & (V_th > 0),
+               "force", V_th, c_n, f_n, bolt & thread,
                "a thread lies in this shear plane: rigging practice warns against it"),
         _check("pin bending", "AISC 360-16 §F11.1 (common practice for pins): Mn = Fy Z ≤ 1.6 Fy S", "moment",
                P["M"], Mc, fb),

@@ -77,15 +77,16 @@ def pin_checks(P, f, variant=None):
     bolt = P.get("bolt", np.zeros(n, bool))
     As = P.get("As", A)
     V_sh, V_th = P.get("V_shank", P["V"]), P.get("V_thread", np.zeros(n))
+    shank, thread = P.get("shank_planes", np.ones(n, bool)), P.get("thread_planes", np.zeros(n, bool))
     secured = P.get("secured", np.zeros(n, bool))
     tau, ft = allowable("pin_shear", P["fyp"], P["fup"], f)
     sig, fb = allowable("pin_bending", P["fyp"], P["fup"], f)
     return [
         _check("pin shear", _clause("pin_shear"), "stress", P["V"] / A, tau, ft, ~bolt),
         _check("bolt shear (shank)", _clause("pin_shear") + " (shank area A)", "stress", V_sh / A, tau, ft,
-               bolt & (V_sh > 0)),
+               bolt & shank),
         _check("bolt shear (thread)", _clause("pin_shear") + " (on the stress area As)", "stress", V_th / As, tau,
-               ft, bolt & (V_th > 0), "a thread lies in this shear plane: rigging practice warns against it"),
+               ft, bolt & thread, "a thread lies in this shear plane: rigging practice warns against it"),
         _check("pin bending", _clause("pin_bending"), "stress", P["M"] / Wel, sig, fb),
         _check("pin secured", "common practice: the pin is retained against working loose (1 = not stated "
                "secured)", "ratio", np.where(secured, 0.0, 1.0), np.where(secured, 1.0, 0.0), "", None,

@@ -125,14 +125,15 @@ def pin_checks(P, f, variant="A"):
     bolt = P.get("bolt", np.zeros(n, bool))
     As = P.get("As", A)
     V_sh, V_th = P.get("V_shank", P["V"]), P.get("V_thread", np.zeros(n))
+    shank, thread = P.get("shank_planes", np.ones(n, bool)), P.get("thread_planes", np.zeros(n, bool))
     secured = P.get("secured", np.zeros(n, bool))
     return [
         _check("pin shear", "ASME BTH-1-2017 §3-2.2: Fv = Fy/(Nd √3) on A per shear plane" + TAG_LOW, "force",
                P["V"], Fv * A, cat, ~bolt),
         _check("bolt shear (shank)", "ASME BTH-1-2017 §3-2.2: Fv = Fy/(Nd √3) on the shank area A" + TAG_LOW,
-               "force", V_sh, Fv * A, cat, bolt & (V_sh > 0)),
+               "force", V_sh, Fv * A, cat, bolt & shank),
         _check("bolt shear (thread)", "ASME BTH-1-2017 §3-2.2: Fv = Fy/(Nd √3) on the stress area As"
-               + TAG_LOW, "force", V_th, Fv * As, cat, bolt & (V_th > 0),
+               + TAG_LOW, "force", V_th, Fv * As, cat, bolt & thread,
                "a thread lies in this shear plane: rigging practice warns against it"),
         _check("pin bending", "ASME BTH-1-2017 §3-2.3: Fb = 1.25 Fy/Nd on S = π d³/32 (solid round)" + TAG_LOW,
                "moment", P["M"], Fb * S, cat),

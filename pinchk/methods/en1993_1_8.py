@@ -59,6 +59,7 @@ def pin_checks(P, f, variant=None):
     uls = P["uls"]
     bolt = P.get("bolt", np.zeros(n, bool))
     V_sh, V_th = P.get("V_shank", P["V"]), P.get("V_thread", np.zeros(n))
+    shank, thread = P.get("shank_planes", np.ones(n, bool)), P.get("thread_planes", np.zeros(n, bool))
     Fv_sh = 0.6 * P["fup"] * A / g2  # Table 3.4, shank in the shear plane
     av_th = alpha_v_thread(P.get("grade", [""] * n))
     Fv_th = av_th * P["fup"] * P.get("As", A) / g2  # Table 3.4, thread in the shear plane
@@ -68,10 +69,10 @@ def pin_checks(P, f, variant=None):
         _check("pin shear", "EN 1993-1-8 Table 3.10: Fv,Rd = 0.6 A fup / γM2", "force", P["V"], Fv_Rd,
                f"γM2 = {g2:g}", uls & ~bolt),
         _check("bolt shear (shank)", "EN 1993-1-8 Table 3.4: Fv,Rd = αv fub A / γM2, αv = 0.6 (shank)", "force",
-               V_sh, Fv_sh, f"γM2 = {g2:g}, αv = 0.6", uls & bolt & (V_sh > 0)),
+               V_sh, Fv_sh, f"γM2 = {g2:g}, αv = 0.6", uls & bolt & shank),
         _check("bolt shear (thread)", "EN 1993-1-8 Table 3.4: Fv,Rd = αv fub As / γM2 (thread in the plane)",
                "force", V_th, Fv_th, f"γM2 = {g2:g}, αv by class (0.6 for 4.6, 5.6, 8.8; 0.5 otherwise)",
-               uls & bolt & (V_th > 0), "a thread lies in this shear plane: rigging practice warns against it"),
+               uls & bolt & thread, "a thread lies in this shear plane: rigging practice warns against it"),
         _check("pin bending", "EN 1993-1-8 Table 3.10: MRd = 1.5 Wel fyp / γM0 (MEd per Fig. 3.11 model)",
                "moment", P["M"], M_Rd, f"γM0 = {g0:g}", uls),
         _check("pin shear + bending", "EN 1993-1-8 Table 3.10: (MEd/MRd)² + (Fv,Ed/Fv,Rd)² ≤ 1", "ratio",

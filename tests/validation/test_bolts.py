@@ -252,3 +252,10 @@ def test_bolt_input_errors_name_the_field(pin, d, field, words):
         parse_job(tomllib.loads(text), "bolt.toml", text)
     msg = str(exc.value)
     assert f"field '{field}'" in msg and words in msg and "pin.P" in msg
+
+
+def test_bolt_rows_are_there_in_every_case_even_unloaded():
+    text = _job('name = "EN 1993-1-8"', 'bolt = "8.8"\nthread_planes = [2]').replace("[case.lift]", "[case.lift]\n[case.idle]")
+    res = _run(text)
+    for check in ("bolt shear (shank)", "bolt shear (thread)"):
+        assert {r["case"] for r in res.rows() if r["check"] == check} == {"lift", "idle"}
