@@ -255,7 +255,8 @@ def test_bolt_input_errors_name_the_field(pin, d, field, words):
 
 
 def test_bolt_rows_are_there_in_every_case_even_unloaded():
-    text = _job('name = "EN 1993-1-8"', 'bolt = "8.8"\nthread_planes = [2]').replace("[case.lift]", "[case.lift]\n[case.idle]")
+    text = _job('name = "EN 1993-1-8"', 'bolt = "8.8"\nthread_planes = [2]')
+    text = text.replace("[case.lift]", "[case.lift]\n[case.idle]")
     res = _run(text)
     for check in ("bolt shear (shank)", "bolt shear (thread)"):
         assert {r["case"] for r in res.rows() if r["check"] == check} == {"lift", "idle"}
