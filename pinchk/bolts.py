@@ -18,6 +18,8 @@ import math
 from dataclasses import dataclass
 from functools import cache
 
+import numpy as np
+
 from .materials import read_rows
 from .units import to_si
 
@@ -181,3 +183,40 @@ class BoltSpec:
     def thread_note(self) -> str:
         return (f"bolt {self.grade.label}, {pitch_text(self.system, self.pitch)} ({self.pitch_source}), "
                 f"As = {self.As * 1e6:.4g} mm² by the {self.system} stress-area formula")
+
+
+def shank_and_thread_shear(pin, st):
+    """Largest shear [N] on a plane through the shank and on one through the thread, per case (0 where none).
+
+    Args:
+        pin: the Pin (its ``bolt`` says which planes cut the thread). st: its StackResult.
+    """
+    planes = st.plane_shear
+    thread = np.zeros(planes.shape[1], bool)
+    if pin.bolt is not None:
+        thread[[k - 1 for k in pin.bolt.thread_planes]] = True
+    zero = np.zeros(planes.shape[0])
+    V_sh = planes[:, ~thread].max(axis=1) if (~thread).any() else zero
+    V_th = planes[:, thread].max(axis=1) if thread.any() else zero
+    return V_sh, V_th
+
+
+def warnings_for(pin) -> list[str]:
+    """Rigging practice warns against a bolt in place of a pin where a thread bears or shears, or it turns."""
+    b = pin.bolt
+    if b is None:
+        return []
+    out = []
+    if b.thread_planes:
+        out.append(f"{pin.name}: bolt used as a pin with its thread in shear plane(s) "
+                   f"{', '.join(map(str, b.thread_planes))}: rigging practice warns against a thread in a shear "
+                   "plane; use a pin or a bolt with a longer shank")
+    if b.thread_plates:
+        names = ", ".join(f"{k} ({pin.stack[k - 1].member})" for k in b.thread_plates)
+        out.append(f"{pin.name}: bolt used as a pin with its thread bearing in plate(s) {names}: rigging practice "
+                   "warns against a thread in bearing; the bearing checks use the shank diameter and do not "
+                   "cover a thread")
+    if pin.rotates:
+        out.append(f"{pin.name}: bolt used as a pin in a joint marked rotating under load: rigging practice warns "
+                   "against it (the bolt wears, its thread and nut can loosen); use a pin")
+    return out

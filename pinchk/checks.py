@@ -7,6 +7,7 @@ from dataclasses import dataclass, field
 import numpy as np
 import numpy.typing as npt
 
+from . import bolts
 from .combine import row_factors
 from .frame import FrameSolution
 from .methods import METHODS, Check, factors_for
@@ -102,7 +103,7 @@ def run_checks(job: Job, sol: FrameSolution) -> Results:
         # the factor stack (dynamic, skew, consequence) scales the forces of the rows it applies to
         sfac, txt = row_factors(job, cases, name, {p.member for p in pin.stack})
         bolt = pin.bolt
-        V_sh, V_th = _bolt_shear(pin, st)
+        V_sh, V_th = bolts.shank_and_thread_shear(pin, st)
         P["d"].append(np.full(nc, pin.diameter))
         P["fup"].append(np.full(nc, pin.material.fu))
         P["fyp"].append(np.full(nc, pin.material.fy))
@@ -122,7 +123,7 @@ def run_checks(job: Job, sol: FrameSolution) -> Results:
         P["rot"].append(np.full(nc, pin.rotates))
         P["stack_text"].append(np.array(txt, dtype=object))
         pin_lab.append(name)
-        warnings += _bolt_warnings(pin)
+        warnings += bolts.warnings_for(pin)
         for k, (plate, part) in enumerate(zip(pin.stack, _part_names(pin))):
             if not plate.checked:
                 continue
@@ -199,35 +200,3 @@ def run_checks(job: Job, sol: FrameSolution) -> Results:
     return Results(job, sol, stacks, mod.NAME, mod.EDITION, variant, fac, columns, tuple(notes), unchecked,
                    tuple(warnings))
 
-
-def _bolt_shear(pin, st: StackResult):
-    """Largest shear on a plane through the shank and on one through the thread (0 where none)."""
-    planes = st.plane_shear
-    thread = np.zeros(planes.shape[1], bool)
-    if pin.bolt is not None:
-        thread[[k - 1 for k in pin.bolt.thread_planes]] = True
-    zero = np.zeros(planes.shape[0])
-    V_sh = planes[:, ~thread].max(axis=1) if (~thread).any() else zero
-    V_th = planes[:, thread].max(axis=1) if thread.any() else zero
-    return V_sh, V_th
-
-
-def _bolt_warnings(pin) -> list[str]:
-    """Rigging practice warns against a bolt in place of a pin where a thread bears or shears, or it turns."""
-    b = pin.bolt
-    if b is None:
-        return []
-    out = []
-    if b.thread_planes:
-        out.append(f"{pin.name}: bolt used as a pin with its thread in shear plane(s) "
-                   f"{', '.join(map(str, b.thread_planes))}: rigging practice warns against a thread in a shear "
-                   "plane; use a pin or a bolt with a longer shank")
-    if b.thread_plates:
-        names = ", ".join(f"{k} ({pin.stack[k - 1].member})" for k in b.thread_plates)
-        out.append(f"{pin.name}: bolt used as a pin with its thread bearing in plate(s) {names}: rigging practice "
-                   "warns against a thread in bearing; the bearing checks use the shank diameter and do not "
-                   "cover a thread")
-    if pin.rotates:
-        out.append(f"{pin.name}: bolt used as a pin in a joint marked rotating under load: rigging practice warns "
-                   "against it (the bolt wears, its thread and nut can loosen); use a pin")
-    return out
