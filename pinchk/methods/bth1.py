@@ -9,9 +9,11 @@ Symbols: Dp pin diameter, Dh hole diameter, t plate thickness, be the plate widt
 across the force (the hole is taken centred in the width), R the distance from the hole centre to the
 plate edge along the force, a = R − Dh/2.
 
-Checks and their clauses (paragraph numbers of the 2017 edition, from memory; the 2008 and 2014
-editions have the same §3-3.3 paragraphs under different equation numbers, so equations are cited by
-their form, not by number):
+Checks and their clauses. Paragraph numbers are those of the 2017 edition as recalled (from memory,
+not read here). Editions: the 2008 edition (whose equation numbers the project's reference notes use)
+and the 2014 edition carry the same pinned-connection rules under §3-3.3, as far as recalled, but the
+equation numbers differ between editions, so this module cites equations by their form, never by
+number. Confirm paragraph numbers and the values marked "from memory" against the edition in use.
 
 - §3-3.3.1 tensile strength through the pin hole: Pt = Cr Fu 2 t beff / (1.20 Nd),
   Cr = 1 − 0.275 √(1 − Dp²/Dh²) (1 where Dp/Dh > 0.90), beff = be · 0.6 (Fu/Fy) √(Dh/be) ≤ be.
@@ -32,6 +34,8 @@ their form, not by number):
   a check from the job's ``secured`` field.
 
 There is no separate edge-distance or width rule here: the strength checks above cover them.
+Not implemented: the combined-stress rule for a plate loaded off its axis, the fatigue (Service Class)
+checks of Chapter 4 and the combined shear and bending of the pin.
 
 References:
     ASME BTH-1-2017, Design of Below-the-Hook Lifting Devices, §3-1.3, §3-2.2, §3-2.3, §3-3.3.
