@@ -89,6 +89,13 @@ def _cmd_materials(a) -> int:
         for r in rows:
             print(f"{name:12s} {r.size_min * 1e3:6.1f} < size <= {r.size_max * 1e3:6.1f} mm  fy {r.fy / 1e6:6.1f} MPa"
                   f"  fu {r.fu / 1e6:6.1f} MPa   {r.source}")
+    from .bolts import grades
+
+    print("\nbolt grades (a pin's bolt = \"GRADE\"): nominal yield / tensile strength")
+    for g in grades():
+        fy = f"{g.fy_nom / 1e6:6.1f}" if g.fy_nom is not None else "  none"
+        print(f"{g.label:22s} {g.size_min * 1e3:6.1f} < d <= {g.size_max * 1e3:6.1f} mm  fy {fy} MPa"
+              f"  fu {g.fu_nom / 1e6:6.1f} MPa   {g.source}")
     return 0
 
 
