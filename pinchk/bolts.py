@@ -45,7 +45,7 @@ class BoltGrade:
 
     @property
     def label(self) -> str:
-        return self.grade if self.standard in self.grade else f"{self.standard} {self.grade}"
+        return self.standard if self.grade in self.standard else f"{self.standard} {self.grade}"
 
 
 @dataclass(frozen=True)
