@@ -66,6 +66,7 @@ class ForceRow:
     fx: float
     fy: float
     fz: float | None
+    ok: bool = True  # False: a force could not be read (the row still counts for the mapping)
 
 
 @dataclass(frozen=True)
@@ -77,6 +78,7 @@ class ForcesTable:
     rows: tuple[ForceRow, ...]
     unit: str  # the force unit the file mostly uses, for messages about it
     header_line: int | None
+    problems: tuple[Problem, ...] = ()  # found reading the file on its own
 
 
 def _suggest(word: str, choices) -> str:
@@ -242,11 +244,12 @@ def parse_csv(text: str, path: str = "<forces>", name: str | None = None) -> tup
                                                  f"headings; check for a stray '{delim}'")
             ok = False
         names = {}
+        named = True
         for col in NAME_COLUMNS:
             names[col] = cell(cells, col)
             if not names[col]:
                 bad(line, col, f"empty: every row names its {', '.join(NAME_COLUMNS)}")
-                ok = False
+                named = False
         vals: dict[str, float | None] = {}
         for col in FORCE_COLUMNS:
             raw = cell(cells, col)
@@ -254,20 +257,21 @@ def parse_csv(text: str, path: str = "<forces>", name: str | None = None) -> tup
                 if col in REQUIRED:
                     bad(line, col, f"empty: give the force component {col} (0 if there is none)")
                     ok = False
-                vals[col] = None
+                vals[col] = math.nan if col in REQUIRED else None
                 continue
             try:
                 vals[col] = _force(raw, unit.get(col))
             except QuantityError as exc:
                 bad(line, col, str(exc))
                 ok = False
-        if ok:
+                vals[col] = math.nan
+        if named:
             rows.append(ForceRow(line, names["case"], names["pin"], names["member"], vals["fx"], vals["fy"],
-                                 vals["fz"]))
+                                 vals["fz"], ok))
     if not body and not probs:
         bad(head_line, "", "the forces file has headings but no rows of forces")
-    table = ForcesTable(path, name or path, tuple(rows), unit.get("fx") or "N", head_line)
-    return table, _capped(probs, path)
+    probs = _capped(probs, path)
+    return ForcesTable(path, name or path, tuple(rows), unit.get("fx") or "N", head_line, tuple(probs)), probs
 
 
 def _json_row_lines(text: str) -> list[int]:
@@ -360,12 +364,12 @@ def parse_json(text: str, path: str = "<forces>", name: str | None = None) -> tu
     if len(lines) != len(rows_t):
         lines = [None] * len(rows_t)
     rows: list[ForceRow] = []
-    for n, (t, line) in enumerate(zip(rows_t, lines), start=1):
+    for n, (t, line) in enumerate(zip(rows_t, lines, strict=True), start=1):
         where = f"rows[{n - 1}]"
         if not isinstance(t, dict):
             bad(line, where, f"expected an object with case, pin, member, fx, fy; got {t!r}"[:200])
             continue
-        ok = True
+        ok = named = True
         for k in t:
             if k not in COLUMNS:
                 bad(line, k, f"unknown key '{k}'{_suggest(k, COLUMNS)}; a row has: {', '.join(COLUMNS)}")
@@ -375,7 +379,7 @@ def parse_json(text: str, path: str = "<forces>", name: str | None = None) -> tu
             v = t.get(col)
             if not isinstance(v, str) or not v.strip():
                 bad(line, col, f"missing or not a name: every row names its {', '.join(NAME_COLUMNS)}, got {v!r}")
-                ok = False
+                named = False
             else:
                 names[col] = v.strip()
         vals: dict[str, float | None] = {}
@@ -385,18 +389,19 @@ def parse_json(text: str, path: str = "<forces>", name: str | None = None) -> tu
                 if col in REQUIRED:
                     bad(line, col, f"missing: give the force component {col} (0 if there is none)")
                     ok = False
-                vals[col] = None
+                vals[col] = math.nan if col in REQUIRED else None
                 continue
             try:
                 vals[col] = _force(v.strip() if isinstance(v, str) else v, unit[col])
             except QuantityError as exc:
                 bad(line, col, str(exc))
                 ok = False
-        if ok:
+                vals[col] = math.nan
+        if named:
             rows.append(ForceRow(line, names["case"], names["pin"], names["member"], vals["fx"], vals["fy"],
-                                 vals["fz"]))
-    table = ForcesTable(path, name or path, tuple(rows), unit["fx"] or "N", None)
-    return table, _capped(probs, path)
+                                 vals["fz"], ok))
+    probs = _capped(probs, path)
+    return ForcesTable(path, name or path, tuple(rows), unit["fx"] or "N", None, tuple(probs)), probs
 
 
 # ----------------------------------------------------------------------------------------------- mapping
@@ -418,7 +423,7 @@ def to_solution(table: ForcesTable, cases: tuple[str, ...], pins: dict[str, tupl
     Returns:
         The solution (None if there are problems) and the problems, all of them.
     """
-    probs: list[Problem] = []
+    probs: list[Problem] = list(table.problems)
     path = table.path
     unknown: dict[tuple[str, str], list[int | None]] = {}  # (field, message) -> lines
     seen: dict[tuple[str, str, str], int | None] = {}
@@ -434,8 +439,9 @@ def to_solution(table: ForcesTable, cases: tuple[str, ...], pins: dict[str, tupl
             key = ("pin", f"the job has no pin '{row.pin}'{_suggest(row.pin, pins)}; its pins: "
                           f"{', '.join(pins) or '(none)'}")
         elif pins[row.pin] is not None and row.member not in pins[row.pin]:
-            key = ("member", f"'{row.member}' does not meet pin {row.pin} in the job{_suggest(row.member, pins[row.pin])};"
-                             f" members there: {', '.join(pins[row.pin])}")
+            there = pins[row.pin]
+            key = ("member", f"'{row.member}' does not meet pin {row.pin} in the job{_suggest(row.member, there)}; "
+                             f"members there: {', '.join(there)}")
         else:
             key = None
         if key is not None:
@@ -482,12 +488,13 @@ def to_solution(table: ForcesTable, cases: tuple[str, ...], pins: dict[str, tupl
             want = pins[p] if pins[p] is not None else _order(got, p, cases)
             miss = [m for m in want if m not in have]
             if miss:
-                at = _lines_text(sorted(r.line for r in have.values() if r.line is not None))
+                at = sorted(r.line for r in have.values() if r.line is not None)
+                at = f"line {at[0]}" if len(at) == 1 else f"lines {_lines_text(at)}"
                 probs.append(Problem(path, "", "member", (
                     f"pin {p}, case '{c}': no force given for member(s) {', '.join(miss)} (this pin's rows in this "
-                    f"case are at lines {at}); every member at a pin needs its row, with 0 if it carries nothing"),
+                    f"case: {at}); every member at a pin needs its row, with 0 if it carries nothing"),
                     min((r.line for r in have.values() if r.line is not None), default=None)))
-    probs.sort(key=lambda q: (q.file != path, q.line if q.line is not None else 0))
+    probs.sort(key=lambda q: (q.file != path, q.line if q.line is not None else 0))  # stable: file-wide first
     if probs:
         return None, _capped(probs, path)
     return _build(table, cases, pins, got, pin_cases, balance_tol), []
@@ -649,9 +656,10 @@ def source_of(r, data: dict, path: str):
         r.bad("forces", "file", "the job has links, supports or loads but no bodies to attach them to; a job "
               "that reads a forces file needs no frame: remove them, or describe the bodies")
     table, problems = read_table(full, file)
-    for p in problems:  # say where the file was named
-        r.c.problems.append(p if p.line is not None or p.field else
-                            Problem(p.file, p.table, p.field, f"{p.message} (named in [forces] file of {path})"))
+    if table is None:  # else attach() reports the file's problems with those of the mapping
+        for p in problems:  # say where the file was named
+            r.c.problems.append(p if p.line is not None or p.field else
+                                Problem(p.file, p.table, p.field, f"{p.message} (named in [forces] file of {path})"))
     return ForcesSource(file, full, float(tol)), table
 
 
@@ -701,7 +709,7 @@ def render_forces(sol: FrameSolution, fmt: str, unit: str = "kN", title: str = "
         rows = []
         for c, p, m, fx, fy, fz in _values(sol, unit):
             r = {"case": c, "pin": p, "member": m, "fx": fx, "fy": fy}
-            if axial:
+            if fz is not None:
                 r["fz"] = fz
             rows.append(json.dumps(r, ensure_ascii=False))
         head = {"format": FORMAT_TAG, "job": title, "solver": sol.solver, "convention": CONVENTION,
@@ -718,7 +726,7 @@ def render_forces(sol: FrameSolution, fmt: str, unit: str = "kN", title: str = "
     quoted = csv.writer(buf, lineterminator="\n", quoting=csv.QUOTE_ALL)
     plain.writerow(["case", "pin", "member", f"fx [{unit}]", f"fy [{unit}]"] + ([f"fz [{unit}]"] if axial else []))
     for c, p, m, fx, fy, fz in _values(sol, unit):
-        row = [c, p, m, repr(fx), repr(fy)] + ([repr(fz)] if axial else [])
+        row = [c, p, m, repr(fx), repr(fy)] + ([repr(fz) if fz is not None else ""] if axial else [])
         # a case name starting with '#' or a space would read back as a comment or lose its space
         (quoted if c[:1] in ("#", " ") else plain).writerow(row)
     return buf.getvalue()

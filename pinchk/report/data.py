@@ -69,7 +69,7 @@ def _with_axial(sol, rows: list[dict], units) -> list[dict]:
         return rows
     fz = [float(pf.axial[j, k]) if pf.axial is not None else 0.0
           for j in range(len(sol.cases)) for pf in sol.pins.values() for k in range(len(pf.members))]
-    for r, v in zip(rows, fz):
+    for r, v in zip(rows, fz, strict=True):
         r["fz"] = convert(v, "force", units)
     return rows
 
