@@ -88,7 +88,7 @@ def _cmd_run(a) -> int:
     else:
         sys.stdout.write(text)
     if a.output or a.format != "table":  # the table view prints its warnings itself
-        for w in results.solution.warnings:
+        for w in getattr(results.solution, "warnings", ()):
             print(f"warning: {w}", file=sys.stderr)
     if a.forces_out:
         print(f"wrote joint forces to {a.forces_out}", file=sys.stderr if not a.output else sys.stdout)

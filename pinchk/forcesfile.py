@@ -22,6 +22,7 @@ import math
 import os
 import re
 from dataclasses import dataclass, replace
+from functools import lru_cache
 
 import numpy as np
 
@@ -101,8 +102,21 @@ def _capped(problems: list[Problem], path: str) -> list[Problem]:
 # ----------------------------------------------------------------------------------------------- reading
 
 
+@lru_cache(maxsize=64)
+def _factor(unit: str) -> float:
+    return to_si(1.0, "force", unit)
+
+
 def _force(value, unit: str | None) -> float:
     """One force cell to N. ``unit`` is the column's unit (None: the cell must carry its own)."""
+    if unit is not None and isinstance(value, str):
+        try:  # the common case, a plain number in the column's unit, without the general parser
+            v = float(value)
+        except ValueError:
+            pass
+        else:
+            if math.isfinite(v):
+                return v * _factor(unit)
     if unit is None:
         bare = isinstance(value, (int, float)) and not isinstance(value, bool)
         if isinstance(value, str):

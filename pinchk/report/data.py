@@ -55,7 +55,7 @@ def to_dict(results) -> dict:
         "links": [{"case": c, "link": n, "tension": convert(t[j], "force", units)}
                   for n, t in sol.links.items() for j, c in enumerate(sol.cases)],
         "solver": sol.solver,
-        "warnings": list(sol.warnings),
+        "warnings": list(getattr(sol, "warnings", ())),
         "equilibrium_residual": sol.residual,
         "unchecked_pins": list(results.unchecked),
         "assumptions": list(results.assumptions),

@@ -68,7 +68,7 @@ def render_table(results, all_cases: bool = False, forces: bool = True) -> str:
         out.append("not checked (no stack of plates given): pins " + ", ".join(results.unchecked))
     for note in results.assumptions:
         out.append(f"assumed: {note}")
-    for w in results.solution.warnings:
+    for w in getattr(results.solution, "warnings", ()):
         out.append(f"WARNING: {w}")
     out.append("")
     out.append(verdict(results))
