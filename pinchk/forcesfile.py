@@ -644,6 +644,10 @@ def attach(job, table: ForcesTable, pin_tables: dict, frame_known: bool, line_of
     sol, probs = to_solution(table, tuple(job.cases), pins, required, job.forces.balance_tol, job.path, line_of)
     if sol is None:
         return job, probs
+    if job.bodies and (job.loads or job.supports):  # never leave input unused without a word
+        sol = replace(sol, warnings=sol.warnings + (
+            f"the frame is not solved: the forces come from the forces file {table.name}; the job's bodies, links, "
+            f"supports and loads ({len(job.loads)} given) only say which members meet each pin",))
     return replace(job, forces=replace(job.forces, solution=sol)), []
 
 
