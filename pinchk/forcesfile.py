@@ -644,11 +644,87 @@ def attach(job, table: ForcesTable, pin_tables: dict, frame_known: bool, line_of
     sol, probs = to_solution(table, tuple(job.cases), pins, required, job.forces.balance_tol, job.path, line_of)
     if sol is None:
         return job, probs
-    if job.bodies and (job.loads or job.supports):  # never leave input unused without a word
-        sol = replace(sol, warnings=sol.warnings + (
-            f"the frame is not solved: the forces come from the forces file {table.name}; the job's bodies, links, "
-            f"supports and loads ({len(job.loads)} given) only say which members meet each pin",))
+    if job.bodies:
+        extra, checked = body_balance(job, sol, job.forces.balance_tol, table.unit)
+        if job.loads or job.supports:  # never leave input unused without a word
+            extra.append(
+                f"the frame is not solved: the forces come from the forces file {table.name}; the job's bodies, "
+                f"links, supports and loads ({len(job.loads)} given) say which members meet each pin, and serve "
+                f"only to check that each body whose every force is known balances (checked: "
+                f"{', '.join(checked) or 'none'})")
+        sol = replace(sol, warnings=sol.warnings + tuple(extra))
     return replace(job, forces=replace(job.forces, solution=sol)), []
+
+
+def body_balance(job, sol: FrameSolution, tol: float, unit: str = "N") -> tuple[list[str], list[str]]:
+    """Warnings for every body or link of ``job`` that the forces of ``sol`` leave out of balance, and the
+    names of the bodies and links checked.
+
+    A body is checked when every force on it is known: those it receives at its pins (from ``sol``)
+    and the job's loads on it. A body with a support or a link end at one of its points is skipped
+    (the forces file does not give those). Moments are taken about the centre of the body's forces.
+    """
+    nc = len(sol.cases)
+    case_ix = {c: j for j, c in enumerate(sol.cases)}
+    parts: dict[str, list] = {}  # name -> [(xy, F (nc, 2), M (nc,))]; None once a force is unknown
+
+    def add(name, xy, f, m=None):
+        if parts.get(name, []) is not None:
+            parts.setdefault(name, []).append((np.asarray(xy, float), f, np.zeros(nc) if m is None else m))
+
+    for pname, pin in job.pins.items():
+        pf = sol.pins.get(pname)
+        for b in pin.bodies:
+            if pf is None:
+                parts[b] = None
+            else:
+                add(b, pin.xy, pf.force[:, pf.members.index(b)])
+    for lname, link in job.links.items():
+        for end in link.ends:
+            if end.pin is None:
+                parts[end.body] = None
+                parts[lname] = None
+            elif end.pin in sol.pins:
+                pf = sol.pins[end.pin]
+                add(lname, end.xy, pf.force[:, pf.members.index(lname)])
+            else:
+                parts[lname] = None
+    for s in job.supports.values():
+        if s.at.pin is None:
+            parts[s.at.body] = None
+    for ld in job.loads:
+        body = ld.body if ld.body is not None else ld.at.body
+        if body is None:
+            continue  # a load hung on a pin is member "load" there
+        f = np.zeros((nc, 2))
+        m = np.zeros(nc)
+        f[case_ix[ld.case]] = ld.force
+        m[case_ix[ld.case]] = ld.moment
+        add(body, ld.at.xy, f, m)
+
+    out: list[str] = []
+    checked: list[str] = []
+    for name, items in parts.items():
+        if not items or name not in job.bodies and name not in job.links:
+            continue
+        checked.append(name)
+        xy = np.array([it[0] for it in items])
+        o = xy.mean(axis=0)
+        size = max(float(np.linalg.norm(xy - o, axis=1).max()), 1e-9)
+        F = sum(it[1] for it in items)
+        M = sum((it[0][0] - o[0]) * it[1][:, 1] - (it[0][1] - o[1]) * it[1][:, 0] + it[2] for it in items)
+        scale = np.max([np.linalg.norm(it[1], axis=1) for it in items] + [np.abs(it[2]) / size for it in items],
+                       axis=0)
+        off = np.maximum(np.linalg.norm(F, axis=1), np.abs(M) / size)
+        rel = np.where(scale > 0, off / np.where(scale > 0, scale, 1.0), 0.0)
+        what = "body" if name in job.bodies else "link"
+        for j in np.flatnonzero(rel > tol):
+            out.append(
+                f"{what} {name}, case '{sol.cases[j]}': the forces it receives at its pins (from the forces file), "
+                f"with the job's loads on it, do not balance: they sum to (Fx, Fy) = ({_g(F[j, 0], unit)}, "
+                f"{_g(F[j, 1], unit)}) {unit} and M = {_g(M[j], unit)} {unit}·m about ({o[0]:g}, {o[1]:g}) m, "
+                f"{100 * rel[j]:.3g}% of its largest force (limit {100 * tol:g}%); check the file against the frame")
+    return out, checked
 
 
 def source_of(r, data: dict, path: str):
