@@ -531,3 +531,17 @@ def test_render_then_parse_keeps_every_figure(forces, unit, fmt):
     tiny = 1e-12 * np.abs(f).max()  # solver round-off below this is written as 0
     np.testing.assert_allclose(back.pins["P"].force, f, rtol=1e-14, atol=max(tiny, 1e-300))
     np.testing.assert_allclose(back.pins["P"].axial, fz, rtol=1e-14, atol=max(1e-12 * scale, 1e-300))
+
+
+def test_json_units_by_column_and_in_values():
+    doc = {"units": {"force": "kN", "fy": "kip"},
+           "rows": [{"case": "c", "pin": "P", "member": "a", "fx": 1.5, "fy": -2, "fz": "3 lbf"}]}
+    table, probs = parse_json(json.dumps(doc), "u.json")
+    assert probs == []
+    r = table.rows[0]
+    # kN by definition; kip and lbf per NIST SP 811 (1 lbf = 4.4482216152605 N)
+    assert (r.fx, r.fy, r.fz) == pytest.approx((1500.0, -2 * KIP, 3 * KIP / 1000), rel=1e-14)
+    _, probs = parse_json(json.dumps({"format": "other/2", "rows": [], "extra": 1}), "u.json")
+    assert {p.field for p in probs} == {"format", "extra", "rows"}
+    _, probs = parse_json("{\n  \"rows\": [\n    {\"case\": 1}\n", "u.json")
+    assert probs[0].line == 4 and "not valid JSON" in probs[0].message
