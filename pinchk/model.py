@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 from dataclasses import dataclass, field
-from typing import TYPE_CHECKING
+from typing import TYPE_CHECKING, Any
 
 if TYPE_CHECKING:
     from .bolts import BoltSpec
@@ -166,6 +166,16 @@ class MethodChoice:
 
 
 @dataclass(frozen=True)
+class ForcesSource:
+    """Joint forces read from a forces file instead of solved from a frame (see pinchk.forcesfile)."""
+
+    file: str  # as the job file names it
+    path: str  # resolved against the job file's folder
+    balance_tol: float  # flag a pin whose member forces sum to more than this share of its largest
+    solution: Any = None  # the pinchk.frame.FrameSolution built from the file
+
+
+@dataclass(frozen=True)
 class Job:
     path: str
     title: str
@@ -178,5 +188,6 @@ class Job:
     loads: tuple[Load, ...]
     cases: dict[str, Case]
     info: dict[str, str] = field(default_factory=dict)
+    forces: ForcesSource | None = None  # set when the job reads its joint forces from a forces file
     combinations: dict[str, Combination] = field(default_factory=dict)  # empty: each case on its own
     stack_factors: tuple[StackFactor, ...] = ()

@@ -278,3 +278,23 @@ def test_detailing_rows_carry_no_load_factors():
             assert "dynamic" not in r["factors"] and "lift" not in r["factors"]
         else:
             assert "dynamic 1.25" in r["factors"]
+
+
+def test_combinations_and_lift_factors_on_forces_read_from_a_file(tmp_path):
+    # forces from another analysis (the padeye demo's forces file) combine and factor the same way
+    import shutil
+    from pathlib import Path
+
+    ex = Path(__file__).resolve().parents[2] / "examples"
+    shutil.copy(ex / "padeye_forces.csv", tmp_path / "padeye_forces.csv")
+    text = (ex / "padeye_forces.toml").read_text(encoding="utf-8")
+    text += '\n[combination.both]\ncases = { lift = 0.5, lift_skew = 0.5 }\n[lift_factors]\ndynamic = 1.1\n'
+    job_path = tmp_path / "padeye.toml"
+    job_path.write_text(text, encoding="utf-8")
+    base = run(str(ex / "padeye_forces.toml"))
+    res = run(str(job_path))
+    b = base.solution
+    expect = 0.5 * b.pins["PE1"].force[b.cases.index("lift")] + 0.5 * b.pins["PE1"].force[b.cases.index("lift_skew")]
+    np.testing.assert_allclose(res.solution.pins["PE1"].force[0], expect, rtol=1e-12)
+    assert res.solution.cases == ("both",)
+    assert all("dynamic 1.1" in r["factors"] for r in res.rows() if r["check"] in ("bearing", "pin shear"))
