@@ -24,7 +24,12 @@ def run(job):
 
     if not hasattr(job, "pins"):
         job = load_job(job)
-    return run_checks(*combine(job, joint_forces(job)))
+    from dataclasses import replace
+
+    per_case = joint_forces(job)
+    job2, sol = combine(job, per_case)
+    res = run_checks(job2, sol)
+    return res if sol is per_case else replace(res, case_solution=per_case)
 
 
 def __getattr__(name):

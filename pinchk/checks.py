@@ -37,6 +37,7 @@ class Results:
     assumptions: tuple[str, ...] = field(default_factory=tuple)
     unchecked: tuple[str, ...] = field(default_factory=tuple)
     warnings: tuple[str, ...] = field(default_factory=tuple)
+    case_solution: FrameSolution | None = None  # the forces per load case, where combinations were checked
 
     def __len__(self) -> int:
         return len(self.columns["check"])

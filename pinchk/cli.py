@@ -77,7 +77,9 @@ def _cmd_run(a) -> int:
         from .forcesfile import render_forces
         from .units import UNIT_SYSTEMS
 
-        _write(a.forces_out, render_forces(results.solution, format_of(a.forces_out),
+        # the forces per load case (not per combination), so the file reads back into the same job
+        per_case = results.solution if results.case_solution is None else results.case_solution
+        _write(a.forces_out, render_forces(per_case, format_of(a.forces_out),
                                            UNIT_SYSTEMS[results.job.output_units]["force"], results.job.title),
                protect + ([a.output] if a.output else []))
     if a.output:

@@ -298,3 +298,19 @@ def test_combinations_and_lift_factors_on_forces_read_from_a_file(tmp_path):
     np.testing.assert_allclose(res.solution.pins["PE1"].force[0], expect, rtol=1e-12)
     assert res.solution.cases == ("both",)
     assert all("dynamic 1.1" in r["factors"] for r in res.rows() if r["check"] in ("bearing", "pin shear"))
+
+
+def test_forces_out_writes_cases_and_reads_back_into_the_combined_job(tmp_path):
+    from pinchk.cli import main
+
+    job = tmp_path / "bracket.toml"
+    job.write_text(frame(COMBOS + "\n[lift_factors]\ndynamic = 1.2\n"), encoding="utf-8")
+    out = tmp_path / "forces.csv"
+    assert main(["run", str(job), "--format", "csv", "--output", str(tmp_path / "r.csv"), "--forces-out", str(out)]) == 0
+    lines = out.read_text(encoding="utf-8")
+    assert "\ndead,P_tip,boom," in lines and "\nlift," not in lines  # per case, not per combination
+    again = tmp_path / "again.toml"
+    again.write_text(job.read_text(encoding="utf-8") + f'\n[forces]\nfile = "{out.name}"\n', encoding="utf-8")
+    a, b = run(str(job)), run(str(again))
+    np.testing.assert_allclose(b.columns["utilization"], a.columns["utilization"], rtol=1e-9)
+    assert b.columns["case"] == a.columns["case"]
