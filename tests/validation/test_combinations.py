@@ -306,7 +306,8 @@ def test_forces_out_writes_cases_and_reads_back_into_the_combined_job(tmp_path):
     job = tmp_path / "bracket.toml"
     job.write_text(frame(COMBOS + "\n[lift_factors]\ndynamic = 1.2\n"), encoding="utf-8")
     out = tmp_path / "forces.csv"
-    assert main(["run", str(job), "--format", "csv", "--output", str(tmp_path / "r.csv"), "--forces-out", str(out)]) == 0
+    view = str(tmp_path / "r.csv")
+    assert main(["run", str(job), "--format", "csv", "--output", view, "--forces-out", str(out)]) == 0
     lines = out.read_text(encoding="utf-8")
     assert "\ndead,P_tip,boom," in lines and "\nlift," not in lines  # per case, not per combination
     again = tmp_path / "again.toml"
