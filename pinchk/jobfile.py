@@ -213,7 +213,7 @@ def parse_job(data: dict[str, Any], path: str = "<job>", text: str = "") -> Job:
     from . import jobfile_lifting
 
     combos = jobfile_lifting.combinations(r, data, cases)
-    members = set(bodies) | set(links) | {GROUND, PIN_LOAD}
+    members = set(bodies) | set(links) | {GROUND, PIN_LOAD} | {pl.member for p in pins.values() for pl in p.stack}
     stack_factors = jobfile_lifting.stack_factors(r, data, combos, cases, pins, members)
 
     job = Job(path=path, title=title, method=method, output_units=output_units, bodies=bodies, pins=pins,
@@ -673,5 +673,6 @@ def _pins_stack(r: _Reader, pt: dict, frame: dict, links, supports, loads, own, 
 
             bolt = bolt_spec(r, where, t, grade, d, len(plates_t))
         out[name] = Pin(name, f["xy"], f["bodies"], d, mat, tuple(stack),
-                        r.flag(where, t, "replaceable"), r.flag(where, t, "rotates"), bolt, r.flag(where, t, "secured"))
+                        r.flag(where, t, "replaceable"), r.flag(where, t, "rotates"), bolt,
+                        r.flag(where, t, "secured"))
     return out

@@ -288,7 +288,8 @@ def test_combinations_and_lift_factors_on_forces_read_from_a_file(tmp_path):
     ex = Path(__file__).resolve().parents[2] / "examples"
     shutil.copy(ex / "padeye_forces.csv", tmp_path / "padeye_forces.csv")
     text = (ex / "padeye_forces.toml").read_text(encoding="utf-8")
-    text += '\n[combination.both]\ncases = { lift = 0.5, lift_skew = 0.5 }\n[lift_factors]\ndynamic = 1.1\n'
+    text += ('\n[combination.both]\ncases = { lift = 0.5, lift_skew = 0.5 }\n[lift_factors]\ndynamic = 1.1\n'
+             'consequence = { value = 1.3, members = ["padeye"] }\n')  # a plate group of a frameless job
     job_path = tmp_path / "padeye.toml"
     job_path.write_text(text, encoding="utf-8")
     base = run(str(ex / "padeye_forces.toml"))
@@ -298,6 +299,7 @@ def test_combinations_and_lift_factors_on_forces_read_from_a_file(tmp_path):
     np.testing.assert_allclose(res.solution.pins["PE1"].force[0], expect, rtol=1e-12)
     assert res.solution.cases == ("both",)
     assert all("dynamic 1.1" in r["factors"] for r in res.rows() if r["check"] in ("bearing", "pin shear"))
+    assert any("consequence 1.3" in r["factors"] for r in res.rows() if r["part"].startswith("padeye"))
 
 
 def test_forces_out_writes_cases_and_reads_back_into_the_combined_job(tmp_path):
