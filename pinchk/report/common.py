@@ -67,10 +67,13 @@ def governing_by_check(results) -> list[int]:
     return sorted(best.values(), key=lambda i: (-util[i], i))
 
 
-def force_rows(results):
-    """Joint forces: (case, pin, member, Fx, Fy, |F|, angle deg) in SI."""
-    sol = results.solution
+def force_rows(results, sol=False):
+    """Joint forces: (case, pin, member, Fx, Fy, |F|, angle deg) in SI, of ``sol`` (default the results'
+    own solution; None gives no rows)."""
+    sol = results.solution if sol is False else sol
     out = []
+    if sol is None:
+        return out
     for j, case in enumerate(sol.cases):
         for pname, pf in sol.pins.items():
             for k, m in enumerate(pf.members):

@@ -50,6 +50,10 @@ def to_dict(results) -> dict:
         "lift_factors": [{"name": sf.name, "value": sf.value, "combinations": sf.combinations, "pins": sf.pins,
                           "members": sf.members, "note": sf.note} for sf in results.job.stack_factors],
         "checks": rows,
+        "case_joint_forces": [  # per load case, where the checks ran on combinations (else empty)
+            {"case": c, "pin": p, "member": m, "fx": convert(fx, "force", units), "fy": convert(fy, "force", units),
+             "unit": fu}
+            for c, p, m, fx, fy, _, _ in force_rows(results, getattr(results, "case_solution", None))],
         "joint_forces": _with_axial(sol, [
             {"case": c, "pin": p, "member": m, "fx": convert(fx, "force", units), "fy": convert(fy, "force", units),
              "resultant": convert(f, "force", units), "angle_deg": a, "unit": fu}

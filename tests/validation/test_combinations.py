@@ -317,3 +317,12 @@ def test_forces_out_writes_cases_and_reads_back_into_the_combined_job(tmp_path):
     a, b = run(str(job)), run(str(again))
     np.testing.assert_allclose(b.columns["utilization"], a.columns["utilization"], rtol=1e-9)
     assert b.columns["case"] == a.columns["case"]
+
+
+def test_json_keeps_the_per_case_forces_beside_the_combined_ones():
+    from pinchk.report.data import to_dict
+
+    d = to_dict(run(job_of(frame(COMBOS))))
+    assert {r["case"] for r in d["case_joint_forces"]} == {"dead", "hook", "side"}
+    assert {r["case"] for r in d["joint_forces"]} == {"lift", "lift_side", "side_back"}
+    assert to_dict(run(job_of(frame())))["case_joint_forces"] == []
