@@ -10,7 +10,7 @@ import numpy.typing as npt
 from . import bolts
 from .combine import row_factors
 from .frame import FrameSolution
-from .methods import METHODS, Check, factors_for
+from .methods import METHODS, factors_for
 from .model import Job
 from .stack import StackResult, solve_stack
 
@@ -74,6 +74,77 @@ def _part_names(pin) -> list[str]:
         same = [j for j, q in enumerate(pin.stack) if q.member == p.member]
         names.append(p.member if len(same) == 1 else f"{p.member} {same.index(i) + 1}/{len(same)}")
     return names
+
+
+_STATUS = np.array(["FAIL", "pass"], dtype=object)
+
+
+def _text(values, n: int) -> npt.NDArray[np.object_]:
+    return np.full(n, values, dtype=object)
+
+
+def _factors_text(factors: str, stack) -> npt.NDArray[np.object_]:
+    """The 'factors' text of each row: the check's own factors, then the row's stack of load factors."""
+    stack = np.asarray(stack, dtype=object)
+    if stack.size == 0:
+        return stack
+    first = stack[0]
+    if (stack == first).all():  # the common case: one text for every row
+        uniq, inv = [first], np.zeros(stack.size, dtype=np.intp)
+    else:
+        index: dict[str, int] = {}
+        inv = np.fromiter((index.setdefault(t, len(index)) for t in stack.tolist()), np.intp, stack.size)
+        uniq = list(index)
+    joined = np.array([factors + ("; " if factors and t else "") + t for t in uniq], dtype=object)
+    return joined[inv]
+
+
+def check_table(blocks, cases) -> dict[str, object]:
+    """The long results table from the checks of each block of rows, as columns.
+
+    ``blocks`` is a list of ``(checks, labels, stack_text)``: the Checks a method returned for rows
+    that run (pin or plate) by (case), the (pin, part) label of each pin or plate, and the text of the
+    load factors applied to each row. Every column is built with whole-array operations (no Python loop
+    over rows): numbers as numpy arrays, text as tuples of str.
+    """
+    nc = len(cases)
+    case_arr = np.array(cases, dtype=object)
+    num: dict[str, list] = {k: [] for k in ("demand", "capacity", "utilization")}
+    txt: dict[str, list] = {k: [] for k in COLUMNS if k not in num}
+    for checks, labels, stack_text in blocks:
+        n = len(labels)
+        pins_ = np.repeat(np.array([p for p, _ in labels], dtype=object), nc)
+        parts = np.repeat(np.array([q for _, q in labels], dtype=object), nc)
+        case_col = np.tile(case_arr, n)
+        for ch in checks:
+            mask = np.ones(n * nc, bool) if ch.mask is None else np.asarray(ch.mask, bool)
+            if not mask.any():
+                continue
+            dem, cap = ch.demand[mask], ch.capacity[mask]
+            with np.errstate(divide="ignore", invalid="ignore"):
+                util = np.where(cap > 0, dem / np.where(cap > 0, cap, 1.0), np.inf)
+            k = int(mask.sum())
+            txt["pin"].append(pins_[mask])
+            txt["part"].append(parts[mask])
+            txt["check"].append(_text(ch.name, k))
+            txt["case"].append(case_col[mask])
+            num["demand"].append(dem)
+            num["capacity"].append(cap)
+            txt["kind"].append(_text(ch.kind, k))
+            num["utilization"].append(util)
+            txt["status"].append(_STATUS[(util <= 1.0).view(np.int8)])
+            txt["clause"].append(_text(ch.clause, k))
+            txt["formula"].append(_text(ch.formula, k))
+            stack = np.asarray(stack_text, dtype=object)[mask] if ch.uses_forces else _text("", k)
+            txt["factors"].append(_factors_text(ch.factors, stack))
+            txt["note"].append(_text(ch.note, k))
+    columns: dict[str, object] = {}
+    for k in COLUMNS:
+        if k in num:
+            columns[k] = np.concatenate(num[k]) if num[k] else np.zeros(0)
+        else:
+            columns[k] = tuple(np.concatenate(txt[k]).tolist()) if txt[k] else ()
+    return columns
 
 
 def run_checks(job: Job, sol: FrameSolution) -> Results:
@@ -143,49 +214,14 @@ def run_checks(job: Job, sol: FrameSolution) -> Results:
             Q["ser"].append(ser)
             plate_lab.append((name, part))
 
-    cols: dict[str, list] = {k: [] for k in COLUMNS}
-
-    def emit(checks: list[Check], labels: list[tuple[str, str]], stack_text) -> None:
-        n = len(labels)
-        pins_ = np.repeat([p for p, _ in labels], nc) if n else np.array([], dtype=str)
-        parts = np.repeat([q for _, q in labels], nc) if n else np.array([], dtype=str)
-        case_col = np.tile(np.array(cases, dtype=object), n)
-        for ch in checks:
-            mask = np.ones(n * nc, bool) if ch.mask is None else np.asarray(ch.mask, bool)
-            if not mask.any():
-                continue
-            dem, cap = ch.demand[mask], ch.capacity[mask]
-            with np.errstate(divide="ignore", invalid="ignore"):
-                util = np.where(cap > 0, dem / np.where(cap > 0, cap, 1.0), np.inf)
-            k = int(mask.sum())
-            cols["pin"] += list(pins_[mask])
-            cols["part"] += list(parts[mask])
-            cols["check"] += [ch.name] * k
-            cols["case"] += list(case_col[mask])
-            cols["demand"].append(dem)
-            cols["capacity"].append(cap)
-            cols["kind"] += [ch.kind] * k
-            cols["utilization"].append(util)
-            cols["status"] += ["pass" if u <= 1.0 else "FAIL" for u in util]
-            cols["clause"] += [ch.clause] * k
-            cols["formula"] += [ch.formula] * k
-            stack = stack_text[mask] if ch.uses_forces else [""] * k
-            cols["factors"] += [ch.factors + ("; " if ch.factors and s else "") + s for s in stack]
-            cols["note"] += [ch.note] * k
-
+    blocks = []
     if pin_lab:
         Pa = {k: np.concatenate(v) for k, v in P.items()}
-        emit(mod.pin_checks(Pa, fac, variant), [(p, "pin") for p in pin_lab], Pa["stack_text"])
+        blocks.append((mod.pin_checks(Pa, fac, variant), [(p, "pin") for p in pin_lab], Pa["stack_text"]))
     if plate_lab:
         Qa = {k: np.concatenate(v) for k, v in Q.items()}
-        emit(mod.plate_checks(Qa, fac, variant), plate_lab, Qa["stack_text"])
-
-    columns: dict[str, object] = {}
-    for k in COLUMNS:
-        if k in ("demand", "capacity", "utilization"):
-            columns[k] = np.concatenate(cols[k]) if cols[k] else np.zeros(0)
-        else:
-            columns[k] = tuple(str(x) for x in cols[k])
+        blocks.append((mod.plate_checks(Qa, fac, variant), plate_lab, Qa["stack_text"]))
+    columns = check_table(blocks, cases)
 
     notes = [f"{n}: {st.share_note}" for n, st in stacks.items()
              if len({p.member for p in job.pins[n].stack}) < len(job.pins[n].stack)]

@@ -6,12 +6,31 @@ Everything past this module works on plain SI floats and numpy arrays (m, N, Pa,
 from __future__ import annotations
 
 import math
+import os
 import re
 from functools import lru_cache
 
 import pint
 
-ureg = pint.UnitRegistry()
+
+def _registry() -> pint.UnitRegistry:
+    """pint's full default registry, read from pint's own cache of its parsed definitions if it can.
+
+    Parsing pint's definitions file is most of a short run's start-up (about 0.15 s); pint keeps the
+    parsed result in a cache folder of the user's (cache_folder=":auto:", keyed by the definitions'
+    content, so a new pint version parses afresh). The registry is the same either way. Set the
+    environment variable PINCHK_UNIT_CACHE=0 to parse every time; any failure of the cache (a folder
+    that cannot be written, a damaged file) falls back to parsing.
+    """
+    if os.environ.get("PINCHK_UNIT_CACHE", "1") != "0":
+        try:
+            return pint.UnitRegistry(cache_folder=":auto:")
+        except Exception:  # noqa: BLE001 - the cache is only an optimisation
+            pass
+    return pint.UnitRegistry()
+
+
+ureg = _registry()
 ureg.formatter.default_format = "~"
 
 #: SI unit of each dimension pinchk reads.
