@@ -79,24 +79,18 @@ def _part_names(pin) -> list[str]:
 _STATUS = np.array(["FAIL", "pass"], dtype=object)
 
 
-def _text(values, n: int) -> npt.NDArray[np.object_]:
-    return np.full(n, values, dtype=object)
-
-
-def _factors_text(factors: str, stack) -> npt.NDArray[np.object_]:
+def _factors_text(factors: str, stack) -> list[str]:
     """The 'factors' text of each row: the check's own factors, then the row's stack of load factors."""
     stack = np.asarray(stack, dtype=object)
     if stack.size == 0:
-        return stack
+        return []
     first = stack[0]
     if (stack == first).all():  # the common case: one text for every row
-        uniq, inv = [first], np.zeros(stack.size, dtype=np.intp)
-    else:
-        index: dict[str, int] = {}
-        inv = np.fromiter((index.setdefault(t, len(index)) for t in stack.tolist()), np.intp, stack.size)
-        uniq = list(index)
-    joined = np.array([factors + ("; " if factors and t else "") + t for t in uniq], dtype=object)
-    return joined[inv]
+        return [factors + ("; " if factors and first else "") + first] * stack.size
+    index: dict[str, int] = {}
+    inv = np.fromiter((index.setdefault(t, len(index)) for t in stack.tolist()), np.intp, stack.size)
+    joined = np.array([factors + ("; " if factors and t else "") + t for t in index], dtype=object)
+    return joined[inv].tolist()
 
 
 def check_table(blocks, cases) -> dict[str, object]:
@@ -124,26 +118,28 @@ def check_table(blocks, cases) -> dict[str, object]:
             with np.errstate(divide="ignore", invalid="ignore"):
                 util = np.where(cap > 0, dem / np.where(cap > 0, cap, 1.0), np.inf)
             k = int(mask.sum())
-            txt["pin"].append(pins_[mask])
-            txt["part"].append(parts[mask])
-            txt["check"].append(_text(ch.name, k))
-            txt["case"].append(case_col[mask])
+            txt["pin"] += pins_[mask].tolist()
+            txt["part"] += parts[mask].tolist()
+            txt["check"] += [ch.name] * k
+            txt["case"] += case_col[mask].tolist()
             num["demand"].append(dem)
             num["capacity"].append(cap)
-            txt["kind"].append(_text(ch.kind, k))
+            txt["kind"] += [ch.kind] * k
             num["utilization"].append(util)
-            txt["status"].append(_STATUS[(util <= 1.0).view(np.int8)])
-            txt["clause"].append(_text(ch.clause, k))
-            txt["formula"].append(_text(ch.formula, k))
-            stack = np.asarray(stack_text, dtype=object)[mask] if ch.uses_forces else _text("", k)
-            txt["factors"].append(_factors_text(ch.factors, stack))
-            txt["note"].append(_text(ch.note, k))
+            txt["status"] += _STATUS[(util <= 1.0).view(np.int8)].tolist()
+            txt["clause"] += [ch.clause] * k
+            txt["formula"] += [ch.formula] * k
+            if ch.uses_forces:
+                txt["factors"] += _factors_text(ch.factors, np.asarray(stack_text, dtype=object)[mask])
+            else:  # a detailing rule: no load factors enter it
+                txt["factors"] += [ch.factors] * k
+            txt["note"] += [ch.note] * k
     columns: dict[str, object] = {}
     for k in COLUMNS:
         if k in num:
             columns[k] = np.concatenate(num[k]) if num[k] else np.zeros(0)
         else:
-            columns[k] = tuple(np.concatenate(txt[k]).tolist()) if txt[k] else ()
+            columns[k] = tuple(txt[k])
     return columns
 
 

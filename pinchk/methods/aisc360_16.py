@@ -14,6 +14,8 @@ from __future__ import annotations
 
 import numpy as np
 
+from ._lookup import per_text
+
 NAME = "AISC 360-16"
 EDITION = "ANSI/AISC 360-16"
 VARIANTS = ("ASD", "LRFD")
@@ -44,8 +46,9 @@ FNV_RATIO = (0.450, 0.563)
 
 def fnv(grades, fu):
     """Fnv with the thread included (N) and excluded (X) [Pa] by grade (Table J3.2)."""
-    n = np.array([FNV[g][0] if g in FNV else FNV_RATIO[0] * u for g, u in zip(grades, fu, strict=True)], float)
-    x = np.array([FNV[g][1] if g in FNV else FNV_RATIO[1] * u for g, u in zip(grades, fu, strict=True)], float)
+    fu = np.asarray(fu, dtype=float)
+    n = per_text(grades, {g: v[0] for g, v in FNV.items()}, FNV_RATIO[0] * fu)
+    x = per_text(grades, {g: v[1] for g, v in FNV.items()}, FNV_RATIO[1] * fu)
     return n, x
 BE_ADD = 0.016  # §D5.1: be = 2t + 0.63 in (2t + 16 mm); the SI 16 mm is the smaller, used for both
 ROT_CLEARANCE = 0.0254 / 32  # §D5.2: hole at most 1/32 in (1 mm) over the pin; the smaller 1/32 in used

@@ -16,6 +16,8 @@ from __future__ import annotations
 
 import numpy as np
 
+from ._lookup import per_text
+
 NAME = "EN 1993-1-8"
 EDITION = "EN 1993-1-8:2005 (with EN 1993-1-1:2005 for γM0), recommended partial factors"
 VARIANTS: tuple[str, ...] = ()
@@ -39,7 +41,7 @@ ALPHA_V_THREAD = {"4.6": 0.6, "5.6": 0.6, "8.8": 0.6, "4.8": 0.5, "5.8": 0.5, "6
 
 
 def alpha_v_thread(grades):
-    return np.array([ALPHA_V_THREAD.get(g, 0.5) for g in grades], float)
+    return per_text(grades, ALPHA_V_THREAD, 0.5)
 
 
 def pin_checks(P, f, variant=None):
