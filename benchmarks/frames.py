@@ -50,7 +50,9 @@ def truss(n_bodies: int, n_cases: int = 1, *, link_every: int = 0, jitter: float
     for i in range(p):
         diag += [(f"u{i}", f"B{i}", f"T{i}"), (f"d{i}", f"T{i}", f"B{i + 1}")]
     members += diag
-    is_link = {name for k, (name, _, _) in enumerate(diag) if link_every and k % link_every == link_every - 1}
+    # (one panel: the top joint would be left with links only, and a pin joins at least one body)
+    is_link = {name for k, (name, _, _) in enumerate(diag)
+               if link_every and p > 1 and k % link_every == link_every - 1}
 
     bodies: dict[str, Body] = {}
     joins: dict[str, list[str]] = {j: [] for j in xy}

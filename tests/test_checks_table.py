@@ -1,0 +1,123 @@
+"""The vectorized results table (checks.check_table) and grade look-ups against their loop versions.
+
+The reference is the row-by-row assembly run_checks used before it was vectorized (reproduced below),
+and the per-row dictionary look-up of EN 1993-1-8 Table 3.4 αv and AISC 360-16 Table J3.2 Fnv. The
+check values are invented; what is tested is that both ways give the same table.
+"""
+
+from __future__ import annotations
+
+from pathlib import Path
+
+import numpy as np
+import pytest
+
+import pinchk
+from pinchk.checks import COLUMNS, check_table
+from pinchk.methods import aisc360_16, en1993_1_8, make_check
+from pinchk.methods._lookup import per_text
+
+
+def _loop_table(blocks, cases):
+    """run_checks' table as it was built before: Python lists, one row at a time."""
+    nc = len(cases)
+    cols = {k: [] for k in COLUMNS}
+    for checks, labels, stack_text in blocks:
+        n = len(labels)
+        pins_ = np.repeat([p for p, _ in labels], nc) if n else np.array([], dtype=str)
+        parts = np.repeat([q for _, q in labels], nc) if n else np.array([], dtype=str)
+        case_col = np.tile(np.array(cases, dtype=object), n)
+        for ch in checks:
+            mask = np.ones(n * nc, bool) if ch.mask is None else np.asarray(ch.mask, bool)
+            if not mask.any():
+                continue
+            dem, cap = ch.demand[mask], ch.capacity[mask]
+            with np.errstate(divide="ignore", invalid="ignore"):
+                util = np.where(cap > 0, dem / np.where(cap > 0, cap, 1.0), np.inf)
+            k = int(mask.sum())
+            cols["pin"] += list(pins_[mask])
+            cols["part"] += list(parts[mask])
+            cols["check"] += [ch.name] * k
+            cols["case"] += list(case_col[mask])
+            cols["demand"].append(dem)
+            cols["capacity"].append(cap)
+            cols["kind"] += [ch.kind] * k
+            cols["utilization"].append(util)
+            cols["status"] += ["pass" if u <= 1.0 else "FAIL" for u in util]
+            cols["clause"] += [ch.clause] * k
+            cols["formula"] += [ch.formula] * k
+            stack = stack_text[mask] if ch.uses_forces else [""] * k
+            cols["factors"] += [ch.factors + ("; " if ch.factors and s else "") + s for s in stack]
+            cols["note"] += [ch.note] * k
+    out = {}
+    for k in COLUMNS:
+        if k in ("demand", "capacity", "utilization"):
+            out[k] = np.concatenate(cols[k]) if cols[k] else np.zeros(0)
+        else:
+            out[k] = tuple(str(x) for x in cols[k])
+    return out
+
+
+def _blocks(rng, stacks):
+    cases = ("lift", "side", "test")
+    nc = len(cases)
+    pins = [(f"P{i}", "pin") for i in range(5)]
+    plates = [(f"P{i}", f"leg {j}/2") for i in range(5) for j in (1, 2)]
+    blocks = []
+    for labels in (pins, plates):
+        n = len(labels) * nc
+        dem = rng.uniform(0, 2, n)
+        cap = rng.uniform(0.5, 1.5, n)
+        cap[::7] = 0.0  # no capacity: utilization inf
+        dem[::11] = np.nan  # a figure that could not be worked out: it fails
+        checks = [make_check("a", "X 1: a <= b", "force", dem, cap, "γ = 1"),
+                  make_check("b", "X 2: c <= d", "length", dem * 2, cap, "", mask=rng.random(n) < 0.5),
+                  make_check("c", "X 3: e <= f", "ratio", dem, cap, "γ = 2", mask=np.zeros(n, bool)),
+                  make_check("d", "X 4: g <= h", "length", dem, cap, "γ = 3", uses_forces=False, note="n")]
+        blocks.append((checks, labels, np.array(rng.choice(stacks, n), dtype=object)))
+    return blocks, cases
+
+
+@pytest.mark.parametrize("stacks", [[""], ["dynamic 1.15"], ["", "dynamic 1.15", "skew 1.25; dynamic 1.15"]])
+def test_check_table_as_the_loop_built_it(stacks):
+    blocks, cases = _blocks(np.random.default_rng(len(stacks)), stacks)
+    new, old = check_table(blocks, cases), _loop_table(blocks, cases)
+    for k in COLUMNS:
+        if isinstance(old[k], tuple):
+            assert isinstance(new[k], tuple) and new[k] == old[k], k
+            assert all(type(x) is str for x in new[k]), k
+        else:
+            np.testing.assert_array_equal(new[k], old[k])
+    assert "FAIL" in new["status"] and "pass" in new["status"]
+
+
+def test_check_table_empty():
+    cols = check_table([], ("c1",))
+    assert all(cols[k] == () for k in COLUMNS if k not in ("demand", "capacity", "utilization"))
+    assert cols["utilization"].shape == (0,)
+
+
+def test_demo_results_unchanged_by_the_table_builder(monkeypatch):
+    path = str(Path(__file__).resolve().parent.parent / "examples" / "a_frame_gantry.toml")
+    new = pinchk.run(path).columns
+    monkeypatch.setattr(pinchk.checks, "check_table", _loop_table)
+    old = pinchk.run(path).columns
+    for k in COLUMNS:
+        if isinstance(old[k], tuple):
+            assert new[k] == old[k], k
+        else:
+            np.testing.assert_array_equal(new[k], old[k])
+
+
+def test_grade_lookups_as_per_row():
+    grades = ["8.8", "", "10.9", "4.6", "A325", "A490M", "X", "8.8"] * 3
+    fu = np.linspace(400e6, 1040e6, len(grades))
+    assert np.array_equal(en1993_1_8.alpha_v_thread(grades),
+                          [en1993_1_8.ALPHA_V_THREAD.get(g, 0.5) for g in grades])
+    n, x = aisc360_16.fnv(grades, fu)
+    assert np.array_equal(n, [aisc360_16.FNV[g][0] if g in aisc360_16.FNV else aisc360_16.FNV_RATIO[0] * u
+                              for g, u in zip(grades, fu, strict=True)])
+    assert np.array_equal(x, [aisc360_16.FNV[g][1] if g in aisc360_16.FNV else aisc360_16.FNV_RATIO[1] * u
+                              for g, u in zip(grades, fu, strict=True)])
+    assert np.array_equal(per_text([""] * 4, {"": 2.0}, 1.0), [2.0] * 4)
+    assert per_text([], {"a": 1.0}, 0.0).shape == (0,)

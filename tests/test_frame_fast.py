@@ -1,0 +1,154 @@
+"""The vectorized frame solve against its loop-based first version and against the method of sections.
+
+References:
+    tests/frame_loops.py: pinchk/frame.py as first written (entry by entry, Python loops), frozen; the
+        vectorized assembly must give the same matrix, right-hand side, numbering, forces, residual
+        and messages.
+    R. C. Hibbeler, Engineering Mechanics: Statics, 14th ed., §6.4 "The method of sections": the
+        chord force of a truss is the bending moment of the whole span about the opposite joint,
+        divided by the depth.
+Frames are generated Warren trusses (benchmarks/frames.py), invented for the purpose.
+"""
+
+from __future__ import annotations
+
+import dataclasses
+from pathlib import Path
+
+import frame_loops as ref
+import numpy as np
+import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
+
+import pinchk
+from benchmarks.frames import truss
+from pinchk import frame
+from pinchk.errors import StructureError
+from pinchk.model import Link, Support
+
+ROOT = Path(__file__).resolve().parent.parent
+FRAME_EXAMPLES = [p for p in sorted((ROOT / "examples").glob("*.toml")) if pinchk.load_job(str(p)).bodies]
+
+
+def _same_assembly(job) -> None:
+    A0, b0, n0 = ref.assemble(job)
+    A1, b1, n1 = frame.assemble(job)
+    assert A0.shape == A1.shape
+    assert (A0 != A1).nnz == 0  # the same matrix to the last bit
+    assert np.array_equal(b0, b1)
+    assert n0["eqs"].owner == n1["eqs"].owner and n0["unk"].owner == n1["unk"].owner
+    for key in ("cases", "members", "L", "pin_body_col", "link_col", "sup_col"):
+        assert n0[key] == n1[key], key
+    # the same forces from the same solution vector
+    x = ref.spla.splu(A0.tocsc()).solve(b0)
+    s0, s1 = ref._collect(job, x, n0), frame._collect(job, x, n1)
+    assert s0.residual == s1.residual
+    assert s1.residual == frame.equilibrium_residual(job, s1)
+    for p, pf in s0.pins.items():
+        assert s1.pins[p].members == pf.members
+        assert np.array_equal(s1.pins[p].force, pf.force), p
+    for name, t in s0.links.items():
+        assert np.array_equal(s1.links[name], t)
+    for name, r in s0.supports.items():
+        assert np.array_equal(s1.supports[name], r)
+
+
+@pytest.mark.parametrize("path", FRAME_EXAMPLES, ids=lambda p: p.name)
+def test_examples_assemble_as_before(path):
+    _same_assembly(pinchk.load_job(str(path)))
+
+
+@settings(max_examples=25, deadline=None)
+@given(n=st.integers(3, 80), cases=st.integers(1, 4), link_every=st.integers(0, 4),
+       jitter=st.floats(0.0, 0.2), seed=st.integers(0, 10_000), body_support=st.booleans())
+def test_random_trusses_assemble_as_before(n, cases, link_every, jitter, seed, body_support):
+    _same_assembly(truss(n, cases, link_every=link_every, jitter=jitter, seed=seed, body_support=body_support))
+
+
+def test_large_truss_assembles_as_before():
+    _same_assembly(truss(600, 3, link_every=3, jitter=0.1, seed=5))  # 2,000+ unknowns: the sparse path
+
+
+@pytest.mark.parametrize("n", [40, 120])  # dense (<= 200 unknowns) and sparse paths
+def test_dense_and_sparse_solves_agree_with_the_loop_version(n, monkeypatch):
+    job = truss(n, 3, link_every=3, jitter=0.1, seed=n)
+    s_ref = ref.solve(job)
+    for limit in (0, 10**9):  # force the sparse, then the dense path
+        monkeypatch.setattr(frame, "DENSE_SOLVE_LIMIT", limit)
+        s = frame.solve(job)
+        scale = max(np.abs(pf.force).max() for pf in s_ref.pins.values())
+        for p, pf in s_ref.pins.items():
+            np.testing.assert_allclose(s.pins[p].force, pf.force, rtol=0, atol=1e-12 * scale)
+        assert s.residual <= 1e-12
+
+
+@pytest.mark.parametrize("panels", [3, 8, 30])
+def test_bottom_chord_by_the_method_of_sections(panels):
+    """Hibbeler §6.4: uniform load P at every top joint, simply supported; the bottom chord of panel i
+    carries T = M / h in tension, M the span's moment about the top joint T_i above it."""
+    w, h, P = 2.0, 1.5, 10e3  # the generator's panel, depth and load (case c1, downward)
+    job = truss(4 * panels - 1, 1, panel=w, height=h)
+    sol = frame.solve(job)
+    R = panels * P / 2
+    for i in range(panels):
+        x = (i + 0.5) * w
+        M = R * x - sum(P * (x - (k + 0.5) * w) for k in range(i))
+        fx, fy = sol.pins[f"B{i + 1}"].force[0, sol.pins[f"B{i + 1}"].members.index(f"b{i}")]
+        assert fx == pytest.approx(M / h, rel=1e-12)  # the pin pulls the chord toward B(i+1): tension
+        assert abs(fy) <= 1e-9 * P
+
+
+def _defect(job, member="d1"):
+    """One diagonal removed and the roller made pinned: as many unknowns as equations, but one panel
+    is a mechanism and the supports are indeterminate (the bottom chord is straight)."""
+    bodies = {k: v for k, v in job.bodies.items() if k != member}
+    pins = {k: dataclasses.replace(p, bodies=tuple(b for b in p.bodies if b != member))
+            for k, p in job.pins.items()}
+    sup = dict(job.supports)
+    sup["right"] = Support("right", "pinned", sup["right"].at)
+    return dataclasses.replace(job, bodies=bodies, pins=pins, supports=sup)
+
+
+def _message(fn, job) -> str:
+    with pytest.raises(StructureError) as exc:
+        fn(job)
+    return str(exc.value)
+
+
+@pytest.mark.parametrize("n", [11, 60])  # dense SVD directly; sparse factor, then the SVD names where
+def test_singular_frames_get_the_same_message(n):
+    job = _defect(truss(n, 2))
+    msg = _message(frame.solve, job)
+    assert msg == _message(ref.solve, job)
+    assert "mechanism with 1 degree(s) of freedom" in msg and "indeterminate to degree 1" in msg
+
+
+def test_large_singular_frame_is_refused():
+    job = _defect(truss(600, 1))  # 2,400 unknowns: above the dense SVD; SuperLU finds a zero pivot
+    assert "equations are singular" in _message(frame.solve, job)
+
+
+def test_large_singular_frame_with_a_tiny_pivot_is_refused():
+    # SuperLU factors this singular matrix without complaint (its smallest pivot is ~1e-18 of the
+    # largest); the loop version returned an answer, the pivot check refuses it
+    job = _defect(truss(2000, 1))
+    ref.solve(job)  # the old behaviour: no error
+    assert "equations are singular" in _message(frame.solve, job)
+
+
+def test_count_messages_for_large_frames_as_before():
+    job = truss(600, 1)
+    more = dataclasses.replace(job, supports={**job.supports, "right": Support("right", "pinned",
+                                                                                job.supports["right"].at)})
+    assert _message(frame.solve, more) == _message(ref.solve, more)
+    assert "indeterminate to degree at least 1" in _message(frame.solve, more)
+
+
+def test_cable_in_compression_same_message():
+    job = truss(20, 2, link_every=1)  # every diagonal a link; half of them are pushed
+    cables = {n: Link(n, "cable", lk.ends) for n, lk in job.links.items()}
+    job = dataclasses.replace(job, links=cables)
+    msg = _message(frame.solve, job)
+    assert msg == _message(ref.solve, job)
+    assert "would be in compression" in msg
