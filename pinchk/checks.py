@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import gc
 from dataclasses import dataclass, field
 
 import numpy as np
@@ -101,14 +102,26 @@ def check_table(blocks, cases) -> dict[str, object]:
     load factors applied to each row. Every column is built with whole-array operations (no Python loop
     over rows): numbers as numpy arrays, text as tuples of str.
     """
+    # the text columns are a few very long lists: the cyclic garbage collector would walk them again and
+    # again while they grow (more than half the time at 10 million rows); they hold only str
+    was_enabled = gc.isenabled()
+    gc.disable()
+    try:
+        return _check_table(blocks, cases)
+    finally:
+        if was_enabled:
+            gc.enable()
+
+
+def _check_table(blocks, cases) -> dict[str, object]:
     nc = len(cases)
     case_arr = np.array(cases, dtype=object)
-    num: dict[str, list] = {k: [] for k in ("demand", "capacity", "utilization")}
-    txt: dict[str, list] = {k: [] for k in COLUMNS if k not in num}
+    # first the numbers and the rows each check keeps, then every text column filled in place
+    parts: list[tuple] = []  # (check, mask, utilization, pin labels, part labels, case labels, stack text)
     for checks, labels, stack_text in blocks:
         n = len(labels)
         pins_ = np.repeat(np.array([p for p, _ in labels], dtype=object), nc)
-        parts = np.repeat(np.array([q for _, q in labels], dtype=object), nc)
+        names = np.repeat(np.array([q for _, q in labels], dtype=object), nc)
         case_col = np.tile(case_arr, n)
         for ch in checks:
             mask = np.ones(n * nc, bool) if ch.mask is None else np.asarray(ch.mask, bool)
@@ -117,30 +130,33 @@ def check_table(blocks, cases) -> dict[str, object]:
             dem, cap = ch.demand[mask], ch.capacity[mask]
             with np.errstate(divide="ignore", invalid="ignore"):
                 util = np.where(cap > 0, dem / np.where(cap > 0, cap, 1.0), np.inf)
-            k = int(mask.sum())
-            txt["pin"] += pins_[mask].tolist()
-            txt["part"] += parts[mask].tolist()
-            txt["check"] += [ch.name] * k
-            txt["case"] += case_col[mask].tolist()
-            num["demand"].append(dem)
-            num["capacity"].append(cap)
-            txt["kind"] += [ch.kind] * k
-            num["utilization"].append(util)
-            txt["status"] += _STATUS[(util <= 1.0).view(np.int8)].tolist()
-            txt["clause"] += [ch.clause] * k
-            txt["formula"] += [ch.formula] * k
-            if ch.uses_forces:
-                txt["factors"] += _factors_text(ch.factors, np.asarray(stack_text, dtype=object)[mask])
-            else:  # a detailing rule: no load factors enter it
-                txt["factors"] += [ch.factors] * k
-            txt["note"] += [ch.note] * k
+            parts.append((ch, mask, dem, cap, util, pins_, names, case_col, stack_text))
+    total = sum(len(u) for *_, u, _, _, _, _ in parts)
+    txt = {k: [None] * total for k in COLUMNS if k not in ("demand", "capacity", "utilization")}
+    at = 0
+    for ch, mask, _, _, util, pins_, names, case_col, stack_text in parts:
+        k = len(util)
+        s = slice(at, at + k)
+        txt["pin"][s] = pins_[mask].tolist()
+        txt["part"][s] = names[mask].tolist()
+        txt["check"][s] = [ch.name] * k
+        txt["case"][s] = case_col[mask].tolist()
+        txt["kind"][s] = [ch.kind] * k
+        txt["status"][s] = _STATUS[(util <= 1.0).view(np.int8)].tolist()
+        txt["clause"][s] = [ch.clause] * k
+        txt["formula"][s] = [ch.formula] * k
+        if ch.uses_forces:
+            txt["factors"][s] = _factors_text(ch.factors, np.asarray(stack_text, dtype=object)[mask])
+        else:  # a detailing rule: no load factors enter it
+            txt["factors"][s] = [ch.factors] * k
+        txt["note"][s] = [ch.note] * k
+        at += k
     columns: dict[str, object] = {}
-    for k in COLUMNS:
-        if k in num:
-            columns[k] = np.concatenate(num[k]) if num[k] else np.zeros(0)
-        else:
-            columns[k] = tuple(txt[k])
-    return columns
+    for key, pos in (("demand", 2), ("capacity", 3), ("utilization", 4)):
+        columns[key] = np.concatenate([p[pos] for p in parts]) if parts else np.zeros(0)
+    for key in txt:
+        columns[key] = tuple(txt[key])
+    return {k: columns[k] for k in COLUMNS}
 
 
 def run_checks(job: Job, sol: FrameSolution) -> Results:
