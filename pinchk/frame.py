@@ -14,6 +14,7 @@ supports), never entry by entry, so a frame of 10,000 bodies assembles in millis
 
 from __future__ import annotations
 
+import sys
 from dataclasses import dataclass
 
 import numpy as np
@@ -169,18 +170,34 @@ class _Entries:
         return rows[keep], cols[keep], vals[keep]
 
 
-def _group_sum(values: npt.NDArray[np.float64], groups, n_group: int) -> npt.NDArray[np.float64]:
+#: Above this many numbers, _group_sum adds with a sparse incidence matrix (when scipy is loaded anyway).
+_SPARSE_SUM_SIZE = 100_000
+
+
+def _group_sum(values: npt.NDArray[np.float64], groups, n_group: int, rows=None) -> npt.NDArray[np.float64]:
     """Sum of the rows of ``values`` (item, ...) by the group of each item: (group, ...).
 
-    Each group's items are added one after another in the order given, exactly as a loop over the
-    items would add them (so the sums are the same to the last bit); one vectorized step per rank.
+    ``rows`` picks the items' rows of ``values`` (all rows if None). Each group's items are added one
+    after another in the order given, exactly as a loop over the items would add them (so the sums are
+    the same to the last bit): one vectorized step per rank within the groups, or, for large arrays
+    once scipy is loaded, one product with a 0/1 incidence matrix (whose rows add in column order).
     """
     groups = np.asarray(groups, dtype=np.intp)
-    out = np.zeros((n_group,) + values.shape[1:])
+    tail = values.shape[1:]
     if groups.size == 0:
-        return out
+        return np.zeros((n_group,) + tail)
+    rows = np.arange(len(groups)) if rows is None else np.asarray(rows, dtype=np.intp)
+    if "scipy.sparse" in sys.modules and groups.size * max(1, int(np.prod(tail))) > _SPARSE_SUM_SIZE:
+        import scipy.sparse as sp
+
+        order = np.argsort(groups, kind="stable")
+        counts = np.bincount(groups, minlength=n_group)
+        indptr = np.concatenate([[0], np.cumsum(counts)])
+        S = sp.csr_matrix((np.ones(len(order)), rows[order], indptr), shape=(n_group, values.shape[0]))
+        return np.asarray(S @ values.reshape(values.shape[0], -1)).reshape((n_group,) + tail)
+    out = np.zeros((n_group,) + tail)
     order = np.argsort(groups, kind="stable")
-    v = values[order]
+    v = values[rows[order]]
     counts = np.bincount(groups, minlength=n_group)
     first = np.cumsum(counts) - counts
     for r in range(int(counts.max())):
@@ -588,18 +605,16 @@ def _residual(job: Job, sol: FrameSolution, Fm: npt.NDArray[np.float64], on_body
     slot_pin = np.repeat(np.arange(len(pin_list)), [len(pf.members) for pf in pin_list])
     P = -_group_sum(Fm, slot_pin, len(pin_list))
 
-    # each body: Fx, Fy and Mz about the origin of every force on it, item by item (item, case, 3):
-    # what its pins give it, then its links, its supports
+    # each body: Fx, Fy and Mz about the origin of every force on it: what its pins give it, then its
+    # links, its supports (item by item: (item, case, 3))
     items: list[npt.NDArray[np.float64]] = []
     who: list[npt.NDArray[np.intp]] = []
     slot, body, xy = on_body
+    F = np.zeros((n_body, n_case, 3))  # Fx, Fy, Mz about the origin
     if slot.size:
-        f = Fm[slot]
-        it = np.empty((len(slot), n_case, 3))
-        it[:, :, :2] = f
-        it[:, :, 2] = xy[:, 0, None] * f[:, :, 1] - xy[:, 1, None] * f[:, :, 0] + 0.0
-        items.append(it)
-        who.append(body)
+        F[:, :, :2] = _group_sum(Fm, body, n_body, rows=slot)
+        mz = xy[:, 0, None] * Fm[slot, :, 1] - xy[:, 1, None] * Fm[slot, :, 0]
+        F[:, :, 2] = _group_sum(mz, body, n_body)
     for lname, link in job.links.items():
         a, b = link.ends
         d = np.subtract(b.xy, a.xy)
@@ -620,8 +635,10 @@ def _residual(job: Job, sol: FrameSolution, Fm: npt.NDArray[np.float64], on_body
             it[0, :, 2] = s.at.xy[0] * r[:, 1] - s.at.xy[1] * r[:, 0] + r[:, 2]
             items.append(it)
             who.append(np.array([body_ix[s.at.body]], dtype=np.intp))
-    F = (_group_sum(np.concatenate(items), np.concatenate(who), n_body) if items
-         else np.zeros((n_body, n_case, 3)))
+    if items:  # after the pins, in order, as a loop would add them
+        it, bi = np.concatenate(items), np.concatenate(who)
+        for k in range(len(bi)):
+            F[bi[k]] += it[k]
     # loads on bodies, each in its own case (a pin's own load is one of its members and already in P)
     loads = [ld for ld in job.loads if not (ld.at.pin is not None and ld.body is None)]
     if loads:

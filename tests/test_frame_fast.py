@@ -152,3 +152,25 @@ def test_cable_in_compression_same_message():
     msg = _message(frame.solve, job)
     assert msg == _message(ref.solve, job)
     assert "would be in compression" in msg
+
+
+def test_group_sums_add_in_order_both_ways(monkeypatch):
+    """The rank-by-rank sums and the incidence-matrix product both add each group's items in order:
+    the same bits as a plain loop."""
+    import scipy.sparse  # noqa: F401  (the product is used only once scipy is loaded)
+
+    rng = np.random.default_rng(3)
+    groups = rng.integers(0, 40, 500)
+    values = rng.standard_normal((500, 3, 2)) * 10.0 ** rng.integers(-6, 6, (500, 3, 2))
+    rows = rng.permutation(500)
+    loop = np.zeros((40, 3, 2))
+    for g, r in zip(groups, rows, strict=True):
+        loop[g] += values[r]
+    for size in (10**12, 0):  # rank by rank, then the sparse product
+        monkeypatch.setattr(frame, "_SPARSE_SUM_SIZE", size)
+        assert np.array_equal(frame._group_sum(values, groups, 40, rows=rows), loop)
+
+
+def test_large_truss_forces_as_before_with_the_sparse_sums(monkeypatch):
+    monkeypatch.setattr(frame, "_SPARSE_SUM_SIZE", 0)
+    _same_assembly(truss(200, 2, link_every=2, jitter=0.05, seed=9, body_support=True))
