@@ -117,12 +117,11 @@ def _check_table(blocks, cases) -> dict[str, object]:
     nc = len(cases)
     case_arr = np.array(cases, dtype=object)
     # first the numbers and the rows each check keeps, then every text column filled in place
-    parts: list[tuple] = []  # (check, mask, utilization, pin labels, part labels, case labels, stack text)
+    parts: list[tuple] = []  # (check, mask, demand, capacity, utilization, pins, part names, stack text)
     for checks, labels, stack_text in blocks:
         n = len(labels)
-        pins_ = np.repeat(np.array([p for p, _ in labels], dtype=object), nc)
-        names = np.repeat(np.array([q for _, q in labels], dtype=object), nc)
-        case_col = np.tile(case_arr, n)
+        pins_ = np.array([p for p, _ in labels], dtype=object)
+        names = np.array([q for _, q in labels], dtype=object)
         for ch in checks:
             mask = np.ones(n * nc, bool) if ch.mask is None else np.asarray(ch.mask, bool)
             if not mask.any():
@@ -130,17 +129,19 @@ def _check_table(blocks, cases) -> dict[str, object]:
             dem, cap = ch.demand[mask], ch.capacity[mask]
             with np.errstate(divide="ignore", invalid="ignore"):
                 util = np.where(cap > 0, dem / np.where(cap > 0, cap, 1.0), np.inf)
-            parts.append((ch, mask, dem, cap, util, pins_, names, case_col, stack_text))
-    total = sum(len(u) for *_, u, _, _, _, _ in parts)
+            parts.append((ch, mask, dem, cap, util, pins_, names, stack_text))
+    total = sum(len(p[4]) for p in parts)
     txt = {k: [None] * total for k in COLUMNS if k not in ("demand", "capacity", "utilization")}
     at = 0
-    for ch, mask, _, _, util, pins_, names, case_col, stack_text in parts:
+    for ch, mask, _, _, util, pins_, names, stack_text in parts:
         k = len(util)
         s = slice(at, at + k)
-        txt["pin"][s] = pins_[mask].tolist()
-        txt["part"][s] = names[mask].tolist()
+        row = np.flatnonzero(mask)  # rows run (pin or plate) by (case)
+        label, case = np.divmod(row, nc)
+        txt["pin"][s] = pins_[label].tolist()
+        txt["part"][s] = names[label].tolist()
         txt["check"][s] = [ch.name] * k
-        txt["case"][s] = case_col[mask].tolist()
+        txt["case"][s] = case_arr[case].tolist()
         txt["kind"][s] = [ch.kind] * k
         txt["status"][s] = _STATUS[(util <= 1.0).view(np.int8)].tolist()
         txt["clause"][s] = [ch.clause] * k
