@@ -81,12 +81,17 @@ def _members(job: Job) -> dict[str, list[str]]:
     return members
 
 
+def _places(job: Job) -> list[tuple[float, float]]:
+    """Every point of the frame: body points and pins (a pin may stand where only links meet)."""
+    return [xy for b in job.bodies.values() for xy in b.points.values()] + [p.xy for p in job.pins.values()]
+
+
 def assemble(job: Job):
     """Equilibrium equations ``A x = b`` of the job, with the numbering used."""
     cases = tuple(job.cases)
     case_ix = {c: i for i, c in enumerate(cases)}
     members = _members(job)
-    xs = [xy for b in job.bodies.values() for xy in b.points.values()]
+    xs = _places(job)
     span = float(np.ptp(np.asarray(xs), axis=0).max()) if len(xs) > 1 else 1.0
     L = span if span > 0 else 1.0  # moment rows are divided by L so every entry is of order one
 
@@ -364,7 +369,7 @@ def equilibrium_residual(job: Job, sol: FrameSolution) -> float:
             continue  # a pin's own load is one of its members ("load") and already in P
         put(load.body or load.at.body, load.at.xy, f, mz)
 
-    xs = np.asarray([xy for b in job.bodies.values() for xy in b.points.values()])
+    xs = np.asarray(_places(job))
     L = max(float(np.abs(xs).max()), 1e-9)
     scale = max(
         [np.abs(pf.force).max(initial=0.0) for pf in sol.pins.values()]

@@ -273,8 +273,11 @@ def _xy(r: _Reader, where: str, field: str, v) -> tuple[float, float] | None:
 def _bodies(r: _Reader, data: dict) -> dict[str, Body]:
     out: dict[str, Body] = {}
     bt = r.table(data, "body", "")
-    if not bt:
-        r.bad("body", "", "no bodies: describe at least one [body.NAME] with its points")
+    pt = data.get("pin")
+    own_place = isinstance(pt, dict) and any(isinstance(t, dict) and "at" in t for t in pt.values())
+    if not bt and not own_place:
+        r.bad("body", "", "no bodies: describe at least one [body.NAME] with its points (or, for links "
+              "only, pins at places of their own, at = [x, y])")
     for name, t in bt.items():
         where = f"body.{name}"
         if not isinstance(t, dict):
@@ -436,7 +439,7 @@ def _supports(r: _Reader, data: dict, bodies, pins) -> dict[str, Support]:
                 continue
             at_pin[place.pin] = name
         out[name] = Support(name, kind, place, normal)
-    if not st and bodies:
+    if not st and (bodies or pins):
         r.bad("support", "", "no supports: a frame needs at least one [support.NAME] to stand on")
     return out
 
