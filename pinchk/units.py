@@ -43,9 +43,21 @@ class QuantityError(ValueError):
     """A quantity could not be read; the message says what was expected."""
 
 
+# A power is a unit name raised to a small whole number (mm^2, in**-1). pint evaluates exponent
+# expressions, so a tower such as m^(9^9^9), short as it is, would compute a number of millions of
+# digits: every power operator must match this before pint sees the text.
+_POWER_OP = re.compile(r"\^|\*\*")
+_POWER_OK = re.compile(r"[A-Za-zµ°]\s*(?:\^|\*\*)\s*[+-]?\d{1,2}(?![\d.])(?!\s*(?:\^|\*\*))")
+
+
 @lru_cache(maxsize=256)
 def _unit_factor(unit_text: str, dim: str) -> float:
     """SI factor of a unit expression, checked for dimension (cached: a job repeats its units)."""
+    if len(_POWER_OP.findall(unit_text)) != len(_POWER_OK.findall(unit_text)):
+        raise QuantityError(
+            f"'{unit_text}': a power must be a unit raised to a whole number of at most two digits, "
+            f"such as mm^2 or in**2"
+        )
     q = ureg.Quantity(1.0, unit_text)
     try:
         return float(q.to(SI_UNIT[dim]).magnitude)
