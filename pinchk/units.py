@@ -141,7 +141,10 @@ def to_si(value: object, dim: str, default_unit: str | None = None) -> float:
         raise QuantityError(
             f"{unit_text!r} is not a unit pinchk knows ({type(exc).__name__}); write for example {_example(dim)}"
         ) from None
-    return number * factor
+    si = number * factor
+    if not math.isfinite(si):
+        raise QuantityError(f"{value!r} is not a finite quantity: {number!r} {unit_text} is too large in SI units")
+    return si
 
 
 def check_unit(unit_text: str, dim: str) -> str:
