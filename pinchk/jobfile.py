@@ -42,21 +42,35 @@ def suggest(word: str, choices) -> str:
 
 
 def _line_of(text: str, table: str, field: str) -> int | None:
-    """Best-effort line number of ``field`` under a table header (tomllib keeps none)."""
+    """Best-effort line number of ``field`` in its table (tomllib keeps none).
+
+    ``table`` is a table's dotted name, or "NAME #k" for the k-th of an array of tables [[NAME]]. The
+    field is looked for from the table's header up to the next header; if it is not there (a missing
+    field), the header's line is given.
+    """
     lines = text.splitlines()
-    head = table.split("[")[0]
-    start = 0
-    if head:
+    name, _, nth = table.partition(" #")
+    k = int(nth) if nth.isdigit() else 1
+    start = -1
+    if name:
+        seen = 0
         for i, ln in enumerate(lines):
-            s = ln.strip().replace(" ", "")
-            if s in (f"[{head}]", f"[[{head}]]"):
-                start = i
-                break
-    for i in range(start, len(lines)):
+            s = ln.split("#", 1)[0].replace(" ", "").replace("\t", "")
+            if s in (f"[{name}]", f"[[{name}]]"):
+                seen += 1
+                if seen == k:
+                    start = i
+                    break
+        else:
+            return None
+    key = field.split(".", 1)[0]
+    for i in range(start + 1, len(lines)):
         s = lines[i].lstrip()
-        if field and (s.startswith(field + " ") or s.startswith(field + "=")):
+        if s.startswith("["):
+            break
+        if key and (s.startswith(key + " ") or s.startswith(key + "=")):
             return i + 1
-    return start + 1 if head else None
+    return start + 1 if name else None
 
 
 class _Reader:
