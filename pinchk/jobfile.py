@@ -81,13 +81,19 @@ class _Reader:
         self.text = text
         self.c = Collector(path)
         self.default_units: dict[str, str] = {}
+        self.misspelt: set[tuple[str, str]] = set()  # (table, field) a misspelt name stands for
 
     def bad(self, table: str, field: str, message: str) -> None:
+        if message.startswith("missing") and (table, field) in self.misspelt:
+            return  # already reported: the field is there, misspelt, and the message says so
         self.c.add(table, field, message, _line_of(self.text, table, field))
 
     def keys(self, table: str, data: dict, kind: str) -> None:
         for k in data:
             if k not in KEYS[kind]:
+                near = difflib.get_close_matches(k, list(KEYS[kind]), n=1, cutoff=0.6)
+                if near and near[0] not in data:
+                    self.misspelt.add((table, near[0]))
                 self.bad(table, k, f"unknown field '{k}'{suggest(k, KEYS[kind])}; "
                          f"fields here are: {', '.join(sorted(KEYS[kind]))}")
 
