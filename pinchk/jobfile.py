@@ -641,6 +641,16 @@ def _pins_stack(r: _Reader, pt: dict, frame: dict, links, supports, loads, own) 
                           "every member at a checked pin needs its plate")
             if len(stack) < 2:
                 r.bad(where, "plate", "a stack needs at least two plates")
+            for m in dict.fromkeys(members):
+                given = [pl.share for pl in stack if pl.member == m]
+                if all(g is None for g in given):
+                    continue
+                if any(g is None for g in given):
+                    r.bad(where, "plate", f"member '{m}' gives a share on some of its plates only; give "
+                          "share on every plate of the member, or on none (then in proportion to thickness)")
+                elif abs(sum(given) - 1.0) > 1e-6:
+                    r.bad(where, "plate", f"the shares of member '{m}' add up to {sum(given):g}; the plates of "
+                          "a member carry all of its force between them, so its shares must add up to 1")
         out[name] = Pin(name, f["xy"], f["bodies"], d, mat, tuple(stack),
                         r.flag(where, t, "replaceable"), r.flag(where, t, "rotates"))
     return out
