@@ -281,3 +281,29 @@ def test_oversized_file_refused(tmp_path):
     path.write_bytes(b"#" * (MAX_FILE_BYTES + 1))
     with pytest.raises(InputError, match="at most"):
         load_job(path)
+
+
+def with_ground_shares(shares):
+    """GOOD with ``share = s`` on the two ground plates of pin PA (None: no share on that plate)."""
+    parts = GOOD.split('member = "ground"\n')
+    assert len(parts) == 3
+    out = parts[0]
+    for s, rest in zip(shares, parts[1:]):
+        out += 'member = "ground"\n' + (f"    share = {s}\n" if s is not None else "") + rest
+    return out
+
+
+@pytest.mark.parametrize("shares, message", [
+    ((0.5, 0.3), "add up to 0.8"),
+    ((0.5, None), "on some of its plates only"),
+])
+def test_plate_shares_must_account_for_the_whole_force(make_job, shares, message):
+    """A member's plates carry all of its force: given shares must be on every plate and sum to 1
+    (0.5 + 0.3 would leave a fifth of the force on no plate, and the pin out of equilibrium)."""
+    ps = problems(make_job, with_ground_shares(shares))
+    assert any(p.table == "pin.PA" and p.field == "plate" and message in p.message for p in ps), ps
+
+
+def test_plate_shares_adding_to_one_are_read(make_job):
+    pin = make_job(with_ground_shares((0.7, 0.3))).pins["PA"]
+    assert [p.share for p in pin.stack] == [0.7, None, 0.3]
