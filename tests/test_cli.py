@@ -222,9 +222,20 @@ def test_output_refuses_the_job_file_through_a_link(write_job, capsys, tmp_path)
 
 
 def test_output_into_missing_folder(tmp_path, capsys):
-    rc, _, err = main(capsys, "run", DEMO, "--output", tmp_path / "no" / "such" / "out.txt")
-    assert rc == 2 and "Traceback" not in err and err.strip()
+    target = tmp_path / "no" / "such" / "out.txt"
+    rc, _, err = main(capsys, "run", DEMO, "--output", target)
+    assert rc == 2 and "Traceback" not in err
+    assert err.strip() == f"error: cannot write {target}: No such file or directory"
     assert not (tmp_path / "no").exists()
+
+
+def test_output_onto_a_folder(tmp_path, capsys):
+    """The message names the output path given, not the temporary file; nothing is left behind."""
+    target = tmp_path / "results"
+    target.mkdir()
+    rc, _, err = main(capsys, "run", DEMO, "--output", target)
+    assert rc == 2 and f"cannot write {target}" in err and ".pinchk-" not in err
+    assert [p.name for p in tmp_path.iterdir()] == ["results"] and not list(target.iterdir())
 
 
 def test_output_is_atomic(tmp_path, capsys, monkeypatch):
@@ -237,7 +248,7 @@ def test_output_is_atomic(tmp_path, capsys, monkeypatch):
 
     monkeypatch.setattr(os, "replace", fail)
     rc, _, err = main(capsys, "run", DEMO, "--format", "csv", "--output", target)
-    assert rc == 2 and "No space left" in err
+    assert rc == 2 and f"cannot write {target}: No space left" in err
     assert target.read_text() == "old content\n"
     assert [p.name for p in tmp_path.iterdir()] == ["out.csv"]
 
