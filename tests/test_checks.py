@@ -33,7 +33,7 @@ def test_results_table_contract(write_job, method, variant):
     assert all(len(v) == n for v in c.values())
     util = c["utilization"]
     np.testing.assert_allclose(util, c["demand"] / c["capacity"], rtol=1e-14)
-    assert all(s == ("pass" if u <= 1 else "FAIL") for s, u in zip(c["status"], util))
+    assert all(s == ("pass" if u <= 1 else "FAIL") for s, u in zip(c["status"], util, strict=True))
     assert all(cl for cl in c["clause"]) and all(f for f in c["formula"])
     g = res.governing
     assert util[g] == util.max()

@@ -99,7 +99,7 @@ def test_csv_view(demo_json, capsys):
     rows = list(csv.DictReader(io.StringIO(out)))
     assert ROW_KEYS <= set(rows[0])
     assert len(rows) == len(demo_json["checks"])
-    for r, j in zip(rows, demo_json["checks"]):
+    for r, j in zip(rows, demo_json["checks"], strict=True):
         assert float(r["utilization"]) == j["utilization"]
         assert r["pin"] == j["pin"] and r["check"] == j["check"] and r["unit"] == j["unit"]
 

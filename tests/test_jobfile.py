@@ -288,7 +288,7 @@ def with_ground_shares(shares):
     parts = GOOD.split('member = "ground"\n')
     assert len(parts) == 3
     out = parts[0]
-    for s, rest in zip(shares, parts[1:]):
+    for s, rest in zip(shares, parts[1:], strict=True):
         out += 'member = "ground"\n' + (f"    share = {s}\n" if s is not None else "") + rest
     return out
 

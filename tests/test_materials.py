@@ -50,7 +50,7 @@ def test_en10025_2_by_thickness(grade):
     reh, rm = EN10025[grade]
     rows = library()[grade]
     assert len(rows) == len(EN10025_BANDS)
-    for row, (lo, hi), fy in zip(rows, EN10025_BANDS, reh):
+    for row, (lo, hi), fy in zip(rows, EN10025_BANDS, reh, strict=True):
         assert (row.size_min, row.size_max) == pytest.approx((lo * MM, hi * MM), rel=1e-12)
         assert row.fy == pytest.approx(fy * MPA, rel=1e-12)
         assert row.fu == pytest.approx(rm * MPA, rel=1e-12)
@@ -61,7 +61,7 @@ def test_en10025_2_by_thickness(grade):
 def test_en10083_3_42crmo4_qt():
     rows = library()["42CrMo4+QT"]
     assert len(rows) == len(CRMO)
-    for row, ((lo, hi), (re, rm)) in zip(rows, CRMO):
+    for row, ((lo, hi), (re, rm)) in zip(rows, CRMO, strict=True):
         assert (row.size_min, row.size_max) == pytest.approx((lo * MM, hi * MM), rel=1e-12, abs=1e-15)
         assert (row.fy, row.fu) == pytest.approx((re * MPA, rm * MPA), rel=1e-12)
         assert "EN 10083-3" in row.source
@@ -71,7 +71,7 @@ def test_en10083_3_42crmo4_qt():
 def test_astm(grade):
     rows = library()[grade]
     assert len(rows) == len(ASTM[grade])
-    for row, ((lo, hi), (fy, fu)) in zip(rows, ASTM[grade]):
+    for row, ((lo, hi), (fy, fu)) in zip(rows, ASTM[grade], strict=True):
         assert (row.size_min, row.size_max) == pytest.approx((lo * IN, hi * IN), rel=1e-12, abs=1e-15)
         assert (row.fy, row.fu) == pytest.approx((fy * KSI, fu * KSI), rel=1e-12)
         assert row.E == pytest.approx(29000 * KSI, rel=1e-12)

@@ -31,7 +31,7 @@ def test_json_figures_are_si_values_in_output_units(si, write_job, system):
         'output_units = "SI"', 'output_units = "US"'))))
     d = json.loads(render(res, "json"))
     assert len(d["checks"]) == len(si)
-    for row, i in zip(d["checks"], range(len(si))):
+    for row, i in zip(d["checks"], range(len(si)), strict=True):
         k = PER_UNIT[row["unit"]]
         assert row["demand"] * k == pytest.approx(si.columns["demand"][i], rel=1e-12)
         assert row["capacity"] * k == pytest.approx(si.columns["capacity"][i], rel=1e-12)
@@ -46,7 +46,7 @@ def _columns(lines):
 
     spans = [m.span() for m in re.finditer(r"-+", lines[1])]
     head = [lines[0][a:b].strip() for a, b in spans]
-    return [dict(zip(head, (ln[a:b].strip() for a, b in spans))) for ln in lines[2:] if ln.strip()]
+    return [dict(zip(head, (ln[a:b].strip() for a, b in spans), strict=True)) for ln in lines[2:] if ln.strip()]
 
 
 def test_table_sorted_by_utilization_governing_first(si):

@@ -44,7 +44,7 @@ def brute_force_moment(t, gaps, f, n=20001):
 
 def make_pin(t, gaps, members):
     stack = tuple(Plate(m, ti, g, None, STEEL, 100 * MM, 60 * MM, "round", 41 * MM, "A")
-                  for m, ti, g in zip(members, t, gaps))
+                  for m, ti, g in zip(members, t, gaps, strict=True))
     return Pin("P", (0.0, 0.0), tuple(dict.fromkeys(members)), 40 * MM, STEEL, stack)
 
 
@@ -64,7 +64,7 @@ def test_general_stack_matches_brute_force(seed):
     pf = PinForces("P", tuple(uniq), F[None])
     st = solve_stack(pin, pf)
     share, _ = shares(pin)
-    plate_on_pin = np.array([-F[uniq.index(m)] * s for m, s in zip(members, share)])
+    plate_on_pin = np.array([-F[uniq.index(m)] * s for m, s in zip(members, share, strict=True)])
     ref = brute_force_moment(t, gaps, plate_on_pin)
     assert st.moment[0] == pytest.approx(ref, rel=1e-6)  # the grid resolves the peak to ~1e-8
     assert st.imbalance[0] == pytest.approx(0.0, abs=1e-9 * np.abs(F).max())

@@ -73,7 +73,7 @@ def solve_fbd(eqs, unknowns, expect):
     assert len(sols) == 1, "the free-body equations have no unique solution"
     (sol,) = sols
     assert not set().union(*(s.free_symbols for s in sol)), "the free-body equations leave a free unknown"
-    sub = dict(zip(unknowns, sol))
+    sub = dict(zip(unknowns, sol, strict=True))
 
     def val(e):
         return float(sy.sympify(e).subs(sub))
