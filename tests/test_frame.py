@@ -12,6 +12,8 @@ import dataclasses
 
 import numpy as np
 import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
 
 from pinchk import frame
 from pinchk.errors import StructureError
@@ -405,3 +407,62 @@ def test_residual_sees_a_wrong_reaction_at_a_pin(make_job):
     sup = dict(sol.supports)
     sup["s1"] = sup["s1"] * 1.01
     assert equilibrium_residual(job, dataclasses.replace(sol, supports=sup)) > 1e-3
+
+
+# ----------------------------------------------------------------------------------------------------
+# the three-hinged arch over random geometry (hypothesis, bounded)
+
+@settings(max_examples=40, deadline=None)
+@given(L=st.floats(2, 50), xc_frac=st.floats(0.2, 0.8), h=st.floats(0.5, 20), a_frac=st.floats(0.05, 0.95),
+       P=st.floats(1, 1e4), Q=st.floats(-1e4, 1e4))
+def test_three_hinged_arch_any_geometry(L, xc_frac, h, a_frac, P, Q):
+    """Supports A (0, 0) and B (L, 0), crown hinge C (xc, h), a vertical load P [kN] at x = a on the
+    left part and a horizontal load Q [kN] at the crown pin. Reactions on the structure
+    R_A = (H_A, V_A), R_B = (-H_B, V_B). Moments about A: V_B = (P a + Q h) / L, and V_A = P - V_B.
+    The crown hinge takes no moment, so moments about C of the right part: H_B = V_B (L - xc) / h.
+    Horizontal forces: H_A = H_B - Q."""
+    import tomllib
+
+    from pinchk.jobfile import parse_job
+
+    xc, a = xc_frac * L, a_frac * xc_frac * L
+    text = f"""
+    [job]
+    title = "arch"
+    [units]
+    length = "m"
+    force = "kN"
+    [method]
+    name = "EN 1993-1-8"
+    [body.left]
+    points = {{ A = [0, 0], K = [{a!r}, {a * h / xc!r}], C = [{xc!r}, {h!r}] }}
+    [body.right]
+    points = {{ C = [{xc!r}, {h!r}], B = [{L!r}, 0] }}
+    [pin.C]
+    joins = ["left.C", "right.C"]
+    [support.sa]
+    at = "left.A"
+    kind = "pinned"
+    [support.sb]
+    at = "right.B"
+    kind = "pinned"
+    [case.c]
+    [[load]]
+    case = "c"
+    at = "left.K"
+    force = [0, {-P!r}]
+    [[load]]
+    case = "c"
+    at = "C"
+    force = [{Q!r}, 0]
+    """
+    job = parse_job(tomllib.loads(text))
+    sol = solve(job)
+    VB = (P * a + Q * h) / L
+    VA = P - VB
+    HB = VB * (L - xc) / h
+    HA = -Q + HB
+    scale = max(P, abs(Q), abs(HA), abs(HB)) * 1e3
+    np.testing.assert_allclose(sol.supports["sa"][0, :2], [HA * 1e3, VA * 1e3], rtol=1e-9, atol=1e-9 * scale)
+    np.testing.assert_allclose(sol.supports["sb"][0, :2], [-HB * 1e3, VB * 1e3], rtol=1e-9, atol=1e-9 * scale)
+    assert equilibrium_residual(job, sol) < 1e-12
