@@ -170,15 +170,17 @@ def test_pin_bending_common_practice_f11(variant):
 
 
 def test_default_factors():
-    """§D5.1 φt = φsf = 0.75, Ω = 2.00; §D2(a) 0.90, 1.67; §J7 0.75, 2.00; pins per common practice."""
+    """§D5.1 φt = φsf = 0.75, Ω = 2.00; §D2(a) 0.90, 1.67; §J7 0.75, 2.00; pins per common practice;
+    a bolt used as a pin, §J3.6 φ = 0.75, Ω = 2.00 (from memory)."""
     assert DEFAULTS == {"phi_tr": 0.75, "omega_tr": 2.00, "phi_sr": 0.75, "omega_sr": 2.00,
                         "phi_ty": 0.90, "omega_ty": 1.67, "phi_br": 0.75, "omega_br": 2.00,
-                        "phi_pv": 0.75, "omega_pv": 2.00, "phi_pb": 0.90, "omega_pb": 1.67}
+                        "phi_pv": 0.75, "omega_pv": 2.00, "phi_pb": 0.90, "omega_pb": 1.67,
+                        "phi_bv": 0.75, "omega_bv": 2.00}  # bolts as pins, §J3.6 (from memory)
 
 
 @pytest.mark.parametrize("key, checks", [
     ("tr", {"tensile rupture"}), ("sr", {"shear rupture"}), ("br", {"bearing"}), ("ty", {"gross yielding"}),
-    ("pv", {"pin shear"}), ("pb", {"pin bending"}),
+    ("pv", {"pin shear"}), ("pb", {"pin bending"}), ("bv", {"bolt shear (shank)", "bolt shear (thread)"}),
 ])
 def test_factor_overrides_scale_exactly(key, checks):
     """A φ or Ω override changes only its own check, by exactly the ratio of the factors."""
@@ -196,7 +198,8 @@ def test_factor_overrides_scale_exactly(key, checks):
 def test_lrfd_over_asd_is_phi_times_omega():
     """For each strength check, LRFD φ Rn over ASD Rn/Ω is φ Ω."""
     ratio = {"tensile rupture": 0.75 * 2.00, "shear rupture": 0.75 * 2.00, "bearing": 0.75 * 2.00,
-             "gross yielding": 0.90 * 1.67, "pin shear": 0.75 * 2.00, "pin bending": 0.90 * 1.67}
+             "gross yielding": 0.90 * 1.67, "pin shear": 0.75 * 2.00, "pin bending": 0.90 * 1.67,
+             "bolt shear (shank)": 0.75 * 2.00, "bolt shear (thread)": 0.75 * 2.00}
     for fn, cols in ((aisc.pin_checks, pin_cols()), (aisc.plate_checks, plate_cols())):
         asd, lrfd = by_name(fn(cols, DEFAULTS, "ASD")), by_name(fn(cols, DEFAULTS, "LRFD"))
         for n, r in ratio.items():

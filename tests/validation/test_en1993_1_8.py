@@ -186,7 +186,7 @@ def test_table_3_9_type_b():
 # partial factors
 
 @pytest.mark.parametrize("factor, value, checks", [
-    ("gamma_M2", 1.5, {"pin shear"}),
+    ("gamma_M2", 1.5, {"pin shear", "bolt shear (shank)", "bolt shear (thread)"}),  # Tables 3.10, 3.4
     ("gamma_M0", 1.1, {"pin bending", "bearing"}),
     ("gamma_M6_ser", 1.2, {"pin bending (serviceability)", "bearing (serviceability)", "contact stress"}),
 ])
