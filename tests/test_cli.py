@@ -258,3 +258,27 @@ def test_help_and_no_command(capsys):
     with pytest.raises(SystemExit) as exc:
         cli.main(["run", DEMO.as_posix(), "--format", "xml"])
     assert exc.value.code == 2
+
+
+def _strict_json(text):
+    """Parse as RFC 8259 JSON: NaN and Infinity are not JSON and must not appear."""
+    def refuse(token):
+        raise ValueError(f"{token} is not JSON")
+
+    return json.loads(text, parse_constant=refuse)
+
+
+def test_json_is_strict_json_for_every_method(write_job, capsys):
+    """Every registered method's JSON view of the demo parses as strict JSON; a figure with no finite
+    value (a capacity of zero gives an infinite utilization) is null, and its status says FAIL."""
+    from pinchk.methods import METHODS
+
+    for name in METHODS:
+        text = DEMO.read_text().replace('name = "EN 1993-1-8"', f'name = "{name}"')
+        text = text.replace("gamma_M0 = 1.00\ngamma_M2 = 1.25\n", "")
+        rc, out, err = main(capsys, "run", write_job(text, name=f"{name.replace(' ', '_')}.toml"), "--format", "json")
+        assert rc in (0, 1), err
+        d = _strict_json(out)
+        for row in d["checks"]:
+            if row["utilization"] is None:
+                assert row["status"] == "FAIL"
