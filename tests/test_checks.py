@@ -66,3 +66,38 @@ def test_every_method_module_declares_its_interface():
         assert m.NAME == name and m.EDITION
         assert all(isinstance(v[0], float) and v[0] > 0 and v[1] for v in m.FACTORS.values())
         assert callable(m.pin_checks) and callable(m.plate_checks)
+
+
+def test_serviceability_checks_run_on_sls_cases_only(write_job):
+    """EN 1993-1-8 Table 3.10 and eqs (3.14)-(3.16): the replaceable-pin checks use the serviceability
+    case, the resistance checks the ultimate ones; other pins get no serviceability rows."""
+    text = DEMO.read_text().replace('material = "42CrMo4+QT"', 'material = "42CrMo4+QT"\nreplaceable = true', 1)
+    text += '''
+[case.service]
+description = "10 t on the hook, unfactored"
+limit_state = "SLS"
+[[load]]
+case = "service"
+at = "P_apex"
+mass = "10 t"
+'''
+    res = run(load_job(write_job(text)))
+    c = res.columns
+    rows = list(zip(c["pin"], c["check"], c["case"], strict=True))
+    ser_checks = {"contact stress", "bearing (serviceability)", "pin bending (serviceability)"}
+    ser_rows = [r for r in rows if r[1] in ser_checks]
+    assert {r[0] for r in ser_rows} == {"P_apex"}
+    assert {r[2] for r in ser_rows} == {"service"}
+    assert {r[1] for r in ser_rows} == ser_checks
+    uls_rows = [r for r in rows if r[1] in {"bearing", "pin shear", "pin bending", "end distance (type A)"}]
+    assert {r[2] for r in uls_rows} == {"lift", "lift_side"}
+    assert not any("no SLS case" in a for a in res.assumptions)
+
+
+def test_replaceable_pin_without_sls_case_uses_uls_forces(write_job):
+    text = DEMO.read_text().replace('material = "42CrMo4+QT"', 'material = "42CrMo4+QT"\nreplaceable = true', 1)
+    res = run(load_job(write_job(text)))
+    c = res.columns
+    cases = {k for p, ch, k in zip(c["pin"], c["check"], c["case"], strict=True) if ch == "contact stress"}
+    assert cases == {"lift", "lift_side"}
+    assert any("no SLS case" in a for a in res.assumptions)
