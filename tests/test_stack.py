@@ -98,3 +98,29 @@ def test_shares_in_proportion_to_thickness():
     s, note = shares(pin)
     np.testing.assert_allclose(s, [0.25, 1.0, 0.75], rtol=1e-14)
     assert "proportion to plate thickness" in note
+
+
+def test_which_body_takes_a_load_changes_the_plate_forces(write_job):
+    """The demo's 10 kN side pull acts on leg_left's lugs at the apex; moved onto the apex pin itself
+    (as a second load on the shackle), each of leg_left's two plates there receives P/2 more
+    (Newton's third law at the pin, shares by thickness 20/40), and the shackle's plate takes it."""
+    body_text = DEMO.read_text()
+    line = next(ln for ln in body_text.splitlines(keepends=True) if ln.startswith('body = "leg_left"'))
+    pin_text = body_text.replace(line, "")
+    assert pin_text != body_text
+    P = np.array([10e3, 0.0])
+    res = {}
+    for key, text in (("body", body_text), ("pin", pin_text)):
+        job = load_job(write_job(text, name=f"{key}.toml"))
+        sol = solve(job)
+        res[key] = solve_stack(job.pins["P_apex"], sol.pins["P_apex"]), sol.cases.index("lift_side")
+    (st_b, j), (st_p, _) = res["body"], res["pin"]
+    members = [p.member for p in load_job(DEMO).pins["P_apex"].stack]
+    for k, m in enumerate(members):
+        if m == "leg_left":
+            np.testing.assert_allclose(st_p.plate_force[j, k], st_b.plate_force[j, k] + P / 2, rtol=1e-12)
+        elif m == "load":
+            np.testing.assert_allclose(st_p.plate_force[j, k], st_b.plate_force[j, k] - P, rtol=1e-12)
+        else:
+            np.testing.assert_allclose(st_p.plate_force[j, k], st_b.plate_force[j, k], rtol=1e-12)
+    assert st_p.moment[j] != pytest.approx(st_b.moment[j], rel=1e-3)
