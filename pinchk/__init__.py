@@ -18,7 +18,7 @@ def load_job(path):
 def run(job):
     """Solve the frame of ``job`` (a Job or a path to a job file) and check every pin: Results."""
     from .checks import run_checks
-    from .frame import solve
+    from .solve import solve
 
     if not hasattr(job, "pins"):
         job = load_job(job)
