@@ -36,13 +36,15 @@ class Body:
     """A body with named points (x, y) [m]: rigid for statics; beam members for the stiffness solve.
 
     ``members`` are the pairs of points joined by beam elements (empty: a chain in point order);
-    ``section`` their elastic section (None: the body has none, and only statics can solve it).
+    ``section`` their elastic section (None: the body has none, and only statics can solve it);
+    ``member_sections`` the members whose section differs from the body's.
     """
 
     name: str
     points: dict[str, tuple[float, float]]
     section: Section | None = None
     members: tuple[tuple[str, str], ...] = ()
+    member_sections: dict[tuple[str, str], Section] = field(default_factory=dict)
 
 
 @dataclass(frozen=True)

@@ -65,15 +65,24 @@ def attach_to_bodies(r, data: dict, bodies: dict[str, Body], sections: dict[str,
             else:
                 section = sections[s]
         members: tuple[tuple[str, str], ...] = ()
+        own: dict[tuple[str, str], Section] = {}
         if "members" in t:
             m = t["members"]
             ok = isinstance(m, list) and len(m) > 0
             pairs = []
-            for pair in m if ok else []:
-                if (not isinstance(pair, list) or len(pair) != 2
-                        or not all(isinstance(p, str) for p in pair)):
+            for entry in m if ok else []:
+                if (not isinstance(entry, list) or len(entry) not in (2, 3)
+                        or not all(isinstance(p, str) for p in entry)):
                     ok = False
                     break
+                pair = entry[:2]
+                if len(entry) == 3:
+                    if entry[2] not in sections:
+                        r.bad(where, "members", f"member {entry!r}: {entry[2]!r} is not a section of this job; "
+                              f"defined sections: {', '.join(sections) or '(none)'}")
+                        ok = None
+                    else:
+                        own[(pair[0], pair[1])] = sections[entry[2]]
                 for p in pair:
                     if p not in body.points:
                         r.bad(where, "members", f"member {pair!r}: body {name} has no point '{p}'; "
@@ -87,11 +96,16 @@ def attach_to_bodies(r, data: dict, bodies: dict[str, Body], sections: dict[str,
                     ok = None
                 pairs.append((pair[0], pair[1]))
             if ok is False:
-                r.bad(where, "members", "expected a list of point pairs, e.g. members = [[\"A\", \"B\"], "
-                      f"[\"B\", \"C\"]]; got {m!r}")
+                r.bad(where, "members", "expected a list of point pairs, each with an optional section, e.g. "
+                      f"members = [[\"A\", \"B\"], [\"B\", \"C\", \"HEB200\"]]; got {m!r}")
             elif ok:
                 members = tuple(pairs)
-        out[name] = dataclasses.replace(body, section=section, members=members)
+        if own and section is None and len(own) < len(members):
+            r.bad(where, "section", "some members name their own section and the rest have none: give the "
+                  "body a section = \"NAME\" for the others, or a section on every member")
+        if own and section is None and len(own) == len(members):
+            section = next(iter(own.values()))  # every member has its own; the body's is never used
+        out[name] = dataclasses.replace(body, section=section, members=members, member_sections=own)
     return out
 
 

@@ -178,8 +178,8 @@ class _Model:
         cols: list[int] = []
         vals: list[float] = []
         for bname, body in job.bodies.items():
-            sec = body.section
             for a, b in body_members(body):
+                sec = body.member_sections.get((a, b), body.section)
                 xa, xb = np.asarray(body.points[a]), np.asarray(body.points[b])
                 dofs = np.array([*self._t(bname, a), self.rdof[(bname, a)],
                                  *self._t(bname, b), self.rdof[(bname, b)]])
