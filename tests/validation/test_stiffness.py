@@ -262,7 +262,7 @@ def _sympy_reactions(L, supports, loads):
     downward loads, which comes out negative for the hogging, counter-clockwise wall moment), so
     pinchk's counter-clockwise moments enter with a minus sign, and sympy's M come back negated.
     """
-    from sympy import Rational, nsimplify, symbols
+    from sympy import nsimplify, symbols
     from sympy.physics.continuum_mechanics.beam import Beam
 
     E, I = symbols("E I", positive=True)
@@ -283,7 +283,6 @@ def _sympy_reactions(L, supports, loads):
     for x, r in names.items():
         vals = [float(b.reaction_loads[s]) for s in r]
         out[x] = (vals[0], -vals[1] if len(vals) > 1 else 0.0)
-    del Rational
     return out
 
 
