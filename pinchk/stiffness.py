@@ -38,7 +38,6 @@ from dataclasses import dataclass
 
 import numpy as np
 import numpy.typing as npt
-import scipy.linalg as sla
 import scipy.sparse as sp
 import scipy.sparse.linalg as spla
 
@@ -47,9 +46,11 @@ from .frame import RESIDUAL_TOL, FrameSolution, PinForces, equilibrium_residual
 from .model import GROUND, PIN_LOAD, Body, Job, Place
 
 SOLVER = "direct stiffness (2D linear-elastic frame, pinned releases)"
-#: Up to this many equations the system is decomposed by a dense SVD (rank and mechanism located);
-#: above it a sparse LU is used and a singular system is reported without its location.
-DENSE_LIMIT = 1200
+#: A scaled system whose 1-norm condition number exceeds this is taken as singular (about 1e-3 / eps:
+#: fewer than about three significant digits would survive in the forces).
+COND_LIMIT = 1e-3 / np.finfo(float).eps
+#: A singular system up to this many equations is decomposed by a dense SVD to say where it is singular.
+DENSE_LIMIT = 2500
 #: Tension-only iteration: the most rounds of dropping and taking back cables in one load case.
 MAX_CABLE_ROUNDS = 50
 
@@ -174,9 +175,9 @@ class _Model:
 
         # beam elements of the bodies
         self.elements: list[tuple[tuple[str, str, str], npt.NDArray[np.int64], npt.NDArray, npt.NDArray]] = []
-        rows: list[int] = []
-        cols: list[int] = []
-        vals: list[float] = []
+        rows: list[npt.NDArray] = []
+        cols: list[npt.NDArray] = []
+        vals: list[npt.NDArray] = []
         for bname, body in job.bodies.items():
             for a, b in body_members(body):
                 sec = body.member_sections.get((a, b), body.section)
@@ -186,12 +187,11 @@ class _Model:
                 T, kl = _beam(xa, xb, sec.E, sec.A, sec.I)
                 kg = T.T @ kl @ T
                 self.elements.append(((bname, a, b), dofs, kg, T))
-                for i in range(6):
-                    for j in range(6):
-                        rows.append(dofs[i])
-                        cols.append(dofs[j])
-                        vals.append(kg[i, j])
-        self.K_bodies = sp.csc_matrix((vals, (rows, cols)), shape=(n, n))
+                rows.append(np.repeat(dofs, 6))
+                cols.append(np.tile(dofs, 6))
+                vals.append(kg.ravel())
+        self.K_bodies = sp.csc_matrix((np.concatenate(vals), (np.concatenate(rows), np.concatenate(cols))),
+                                      shape=(n, n))
 
         # links and cables: unit vector a -> b, dofs of the two translation nodes
         self.link_geom: dict[str, tuple[npt.NDArray, npt.NDArray, float]] = {}
@@ -278,7 +278,9 @@ class _System:
         job = m.job
         n = m.n
         self.taut = taut
-        K = m.K_bodies.tolil()
+        rows: list[npt.NDArray] = []
+        cols: list[npt.NDArray] = []
+        vals: list[npt.NDArray] = []
         con: list[tuple[str, npt.NDArray, npt.NDArray]] = []  # (owner, dofs, coefficients)
         self.link_row: dict[str, int] = {}
         for lname, link in job.links.items():
@@ -286,7 +288,9 @@ class _System:
                 continue
             dofs, g, length = m.link_geom[lname]
             if link.EA is not None:
-                K[np.ix_(dofs, dofs)] = K[np.ix_(dofs, dofs)].toarray() + (link.EA / length) * np.outer(g, g)
+                rows.append(np.repeat(dofs, 4))
+                cols.append(np.tile(dofs, 4))
+                vals.append(((link.EA / length) * np.outer(g, g)).ravel())
             else:
                 self.link_row[lname] = len(con)
                 con.append((f"{link.kind} {lname}", dofs, g))
@@ -297,12 +301,17 @@ class _System:
                 self.sup_row[sname].append(len(con))
                 con.append((f"support {sname}", dofs, coef))
         nc = len(con)
+        K = m.K_bodies
+        if vals:
+            K = K + sp.csc_matrix((np.concatenate(vals), (np.concatenate(rows), np.concatenate(cols))),
+                                  shape=(n, n))
         K = K.tocsr()
-        C = sp.lil_matrix((nc, n))
-        for i, (_, dofs, coef) in enumerate(con):
-            for d, v in zip(dofs, coef, strict=True):
-                C[i, d] += v
-        C = C.tocsr()
+        if nc:
+            C = sp.csr_matrix((np.concatenate([c[2] for c in con]),
+                               (np.concatenate([np.full(len(c[1]), i) for i, c in enumerate(con)]),
+                                np.concatenate([c[1] for c in con]))), shape=(nc, n))
+        else:
+            C = sp.csr_matrix((0, n))
         diag = np.abs(K.diagonal())
         ds = np.where(diag > 0, 1.0 / np.sqrt(np.where(diag > 0, diag, 1.0)), 1.0)
         cn = np.sqrt(np.asarray(C.multiply(C).multiply(ds[None, :] ** 2).sum(axis=1)).ravel()) if nc else np.zeros(0)
@@ -315,24 +324,42 @@ class _System:
         self.owner = m.owner + [c[0] for c in con]
         self.singular: str | None = None
         size = n + nc
-        if size <= DENSE_LIMIT:
-            A = self.M.toarray()
-            U, s, Vt = np.linalg.svd(A)
-            tol = size * np.finfo(float).eps * (s[0] if s.size else 1.0) * 1e3
-            rank = int((s > tol).sum())
-            if rank < size:
-                self.singular = self._explain(Vt[rank:], size - rank)
-                return
-            self._lu = sla.lu_factor(A)
-            self._dense = True
-        else:
-            try:
-                self._lu = spla.splu(self.M)
-            except RuntimeError:
+        try:
+            self._lu = spla.splu(self.M)
+            cond = self._condition()
+        except RuntimeError:  # SuperLU: the factor is exactly singular
+            cond = math.inf
+        if not cond <= COND_LIMIT:
+            if size <= DENSE_LIMIT:
+                U, sv, Vt = np.linalg.svd(self.M.toarray())
+                tol = max(size * np.finfo(float).eps * 1e3, 1.0 / COND_LIMIT) * (sv[0] if sv.size else 1.0)
+                k = max(int((sv <= tol).sum()), 1)
+                self.singular = self._explain(Vt[size - k:], k)
+            else:
                 self.singular = ("the stiffness equations are singular: the structure is a mechanism, or rigid "
                                  "links and supports fight each other (too large to locate where)")
-                return
-            self._dense = False
+
+    def _condition(self) -> float:
+        """1-norm condition number of the scaled system; the inverse's norm by Hager's estimator
+        (W. W. Hager, Condition estimates, SIAM J. Sci. Stat. Comput. 5 (1984) 311-316; the form in
+        N. J. Higham, Accuracy and Stability of Numerical Algorithms, 2nd ed., Alg. 15.1, from memory)."""
+        size = self.M.shape[0]
+        x = np.full(size, 1.0 / size)
+        est = 0.0
+        for _ in range(5):
+            y = self._lu.solve(x)
+            if not np.all(np.isfinite(y)):
+                return math.inf
+            est = float(np.abs(y).sum())
+            z = self._lu.solve(np.where(y >= 0, 1.0, -1.0), trans="T")
+            j = int(np.argmax(np.abs(z)))
+            if abs(z[j]) <= z @ x:
+                break
+            x = np.zeros(size)
+            x[j] = 1.0
+        norm = float(abs(self.M).sum(axis=0).max())
+        c = norm * est
+        return c if math.isfinite(c) else math.inf
 
     def _explain(self, null: npt.NDArray[np.float64], k: int) -> str:
         w = np.abs(null).sum(axis=0)
@@ -353,7 +380,9 @@ class _System:
 
     def solve(self, f: npt.NDArray[np.float64]) -> tuple[npt.NDArray[np.float64], npt.NDArray[np.float64]]:
         rhs = self.D * np.concatenate([f, np.zeros(self.nc)])
-        y = sla.lu_solve(self._lu, rhs) if self._dense else self._lu.solve(rhs)
+        y = self._lu.solve(rhs)
+        for _ in range(2):  # iterative refinement: the sparse LU pivots less strictly than a dense one
+            y = y + self._lu.solve(rhs - self.M @ y)
         x = self.D * y
         return x[: self.n], x[self.n:]
 
