@@ -10,7 +10,7 @@ from __future__ import annotations
 import numpy as np
 
 from . import frame, stiffness
-from .errors import StructureError
+from .errors import Problem, StructureError
 from .frame import FrameSolution
 from .model import Job
 
@@ -41,6 +41,15 @@ def solve(job: Job, solver: str | None = None) -> FrameSolution:
             indeterminate one that the stiffness solve cannot solve either gets both messages.
     """
     choice = solver or job.solver
+    if choice == "statics":
+        try:
+            return frame.solve(job)
+        except StructureError as exc:
+            if "indeterminate" not in str(exc):
+                raise
+            raise StructureError(exc.problems + [Problem(job.path, "job", "solver", (
+                "the job forces solver = \"statics\"; with sections on the bodies, solver = \"auto\" or "
+                "\"stiffness\" solves an indeterminate structure by the stiffness method"))]) from None
     if choice != "auto":
         return SOLVERS[choice](job)
     try:
