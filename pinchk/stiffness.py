@@ -42,7 +42,7 @@ import scipy.sparse as sp
 import scipy.sparse.linalg as spla
 
 from .errors import Problem, StructureError
-from .frame import RESIDUAL_TOL, FrameSolution, PinForces, equilibrium_residual
+from .frame import FrameSolution, PinForces, equilibrium_residual
 from .model import GROUND, PIN_LOAD, Body, Job, Place
 
 SOLVER = "direct stiffness (2D linear-elastic frame, pinned releases)"
@@ -51,6 +51,11 @@ SOLVER = "direct stiffness (2D linear-elastic frame, pinned releases)"
 COND_LIMIT = 1e-3 / np.finfo(float).eps
 #: A singular system up to this many equations is decomposed by a dense SVD to say where it is singular.
 DENSE_LIMIT = 2500
+#: Equilibrium residual allowed, relative to the largest force. Looser than statics' 1e-9 because the
+#: forces come from displacements: where a member is much shorter than its neighbours, its stiffness
+#: (~ 1/L³) swamps theirs at the shared node and about (L_long / L_short)³ · eps of the force is lost
+#: (a 10 mm member beside a 4 m one: ~1e-8). 1e-6 still leaves six significant digits.
+RESIDUAL_TOL = 1e-6
 #: Tension-only iteration: the most rounds of dropping and taking back cables in one load case.
 MAX_CABLE_ROUNDS = 50
 
@@ -169,6 +174,11 @@ class _Model:
                 self.rdof[(bname, pt)] = n
                 self.owner.append(f"body {bname} at {pt}")
                 n += 1
+        for pname in job.pins:  # a pin at a place of its own, where only links and supports meet
+            if pname not in self.tdof:
+                self.tdof[pname] = n
+                self.owner += [f"pin {pname}", f"pin {pname}"]
+                n += 2
         self.n = n
         xs = np.asarray([xy for b in job.bodies.values() for xy in b.points.values()])
         self.span = max(float(np.ptp(xs, axis=0).max()), 1e-9)
