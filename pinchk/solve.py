@@ -8,6 +8,7 @@ finds the structure statically indeterminate, by the stiffness method (pinchk.st
 from __future__ import annotations
 
 import numpy as np
+import scipy.sparse as sp
 
 from . import frame, stiffness
 from .errors import Problem, StructureError
@@ -23,7 +24,10 @@ DENSE_RANK_LIMIT = 2000
 def degree_of_indeterminacy(job: Job) -> tuple[int, int] | None:
     """(mechanism degrees of freedom, degree of static indeterminacy) of the rigid-body equations,
     or None when the system is too large for a dense rank."""
-    A = frame.assemble(job)[0]
+    try:
+        A = sp.csc_matrix(frame.assemble(job)[0])
+    except (AttributeError, TypeError, ValueError, IndexError):  # frame's assembly changed its form
+        return None
     if max(A.shape) > DENSE_RANK_LIMIT:
         return None
     s = np.linalg.svd(A.toarray(), compute_uv=False)

@@ -180,8 +180,7 @@ class _Model:
                 self.owner += [f"pin {pname}", f"pin {pname}"]
                 n += 2
         self.n = n
-        xs = np.asarray([xy for b in job.bodies.values() for xy in b.points.values()])
-        self.span = max(float(np.ptp(xs, axis=0).max()), 1e-9)
+        self.at_pin = {(b, pin): pt for (b, pt), pin in self.pin_of.items()}  # (body, pin) -> point
 
         # beam elements of the bodies
         self.elements: list[tuple[tuple[str, str, str], npt.NDArray[np.int64], npt.NDArray, npt.NDArray]] = []
@@ -252,7 +251,7 @@ class _Model:
         """The point of ``body`` at ``place`` (a point of the body, or the pin that joins it)."""
         if place.pin is None:
             return place.point
-        return next(pt for (b, pt), p in self.pin_of.items() if b == body and p == place.pin)
+        return self.at_pin[(body, place.pin)]
 
 
 def _beam(xa, xb, E: float, A: float, I: float):

@@ -228,6 +228,21 @@ def test_example_gantry_with_sections_agrees():
         assert_allclose(b.pins[p].force, a.pins[p].force, rtol=0, atol=1e-9 * 1.5e5)
 
 
+def test_example_jib_bracket_with_a_section_agrees():
+    """The bundled jib bracket example (determinate; a pin at a place of its own, US units) with a
+    section on its arm and EA on its strut: both solvers agree."""
+    text = (ROOT / "examples" / "jib_bracket_aisc.toml").read_text()
+    text = text.replace("[body.arm]", '[section.arm]\nE = "29000 ksi"\nA = "5.9 in^2"\nI = "46 in^4"\n'
+                        '[body.arm]\nsection = "arm"', 1)
+    text = text.replace("[link.strut]", '[link.strut]\nEA = "100000 kip"', 1)
+    job = parse_job(tomllib.loads(text), "jib.toml", text)
+    a, b = frame.solve(job), stiffness.solve(job)
+    check_equilibrium(job, b)
+    scale = max(np.abs(pf.force).max() for pf in a.pins.values())
+    for p in a.pins:
+        assert_allclose(b.pins[p].force, a.pins[p].force, rtol=0, atol=1e-9 * scale)
+
+
 # ---------------------------------------------------------------- propped cantilever
 
 def test_propped_cantilever_centre_load_aisc():
