@@ -257,6 +257,22 @@ def test_propped_cantilever_centre_load_aisc():
     assert_allclose(sol.supports["SA"][0, 2], 3 * P * L / 16, rtol=1e-9)  # counter-clockwise on the beam
 
 
+@settings(max_examples=30, deadline=None)
+@given(L=st.floats(1.0, 20.0), frac=st.floats(0.05, 0.95), P=st.floats(1.0, 500.0),
+       I=st.sampled_from(["2e7 mm^4", "1.2e8 mm^4", "9e8 mm^4"]))
+def test_propped_cantilever_load_anywhere_aisc(L, frac, P, I):
+    """P at a from the fixed end (b = L - a): R_prop = P a²(3L - a)/(2L³), M_fixed = P a b (L + b)/(2L²)
+    (AISC Manual Table 3-23 diagram 15, from memory, written with a from the fixed end; it gives 5P/16
+    at a = L/2, as diagram 13). E and I do not enter: only one stiffness shares the load."""
+    a = frac * L
+    job = beam_job({"A": 0, "C": a, "B": L}, {"A": "fixed", "B": "roller"}, [("C", -P, 0)], I=I)
+    sol = solve(job)
+    check_equilibrium(job, sol)
+    Pn, b = P * 1e3, L - a
+    assert_allclose(sol.supports["SB"][0, 1], Pn * a**2 * (3 * L - a) / (2 * L**3), rtol=1e-9)
+    assert_allclose(sol.supports["SA"][0, 2], Pn * a * b * (L + b) / (2 * L**2), rtol=1e-9)
+
+
 def test_propped_cantilever_udl_lumped_converges_to_handbook():
     """UDL w on a propped cantilever: R_prop = 3wL/8, M_fixed = wL²/8 (AISC Table 3-23 diagram 12, from
     memory). The job format has point loads only, so w is lumped as n equal loads at segment midpoints;
