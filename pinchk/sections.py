@@ -23,6 +23,8 @@ def _power_unit(r, power: int) -> str | None:
 
 def read_sections(r, data: dict) -> dict[str, Section]:
     """[section.NAME] tables: E (stress), A (area), I (second moment of area), optional source."""
+    from .jobfile import _line_of  # (jobfile imports this module: import at call time)
+
     out: dict[str, Section] = {}
     for name, t in r.table(data, "section", "").items():
         where = f"section.{name}"
@@ -33,13 +35,18 @@ def read_sections(r, data: dict) -> dict[str, Section]:
         for k in t:
             if k not in SECTION_KEYS:
                 r.bad(where, k, f"unknown field '{k}'; fields here are: {', '.join(sorted(SECTION_KEYS))}")
+        what = {"E": "Young's modulus, e.g. \"210 GPa\"", "A": "the section area, e.g. \"7800 mm^2\"",
+                "I": "the second moment of area in the frame's plane, e.g. \"5.7e7 mm^4\""}
+        for k in what:
+            if k not in t:  # (the line is the table's: a missing field has none)
+                r.c.add(where, k, f"missing required field '{k}': {what[k]}", _line_of(r.text, where, ""))
         saved = dict(r.default_units)
-        r.default_units["area"] = _power_unit(r, 2)
-        r.default_units["second_moment"] = _power_unit(r, 4)
+        r.default_units["section area"] = _power_unit(r, 2)
+        r.default_units["second moment of area"] = _power_unit(r, 4)
         try:
-            E = r.qty(where, t, "E", "stress", positive=True)
-            A = r.qty(where, t, "A", "area", positive=True)
-            I_ = r.qty(where, t, "I", "second_moment", positive=True)
+            E = r.qty(where, t, "E", "stress", positive=True) if "E" in t else None
+            A = r.qty(where, t, "A", "section area", positive=True) if "A" in t else None
+            I_ = r.qty(where, t, "I", "second moment of area", positive=True) if "I" in t else None
         finally:
             r.default_units.clear()
             r.default_units.update(saved)
