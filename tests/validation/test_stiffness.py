@@ -896,3 +896,41 @@ force = [0, 1]
     a, b = frame.solve(job), stiffness.solve(job)
     assert 1e-10 < b.residual <= stiffness.RESIDUAL_TOL  # digits are lost, as the docstring says
     assert_allclose(b.supports["wall"], a.supports["wall"], rtol=1e-7, atol=1e-6)
+
+
+def test_spreader_on_four_slings_rigid_beam_distribution():
+    """A very stiff spreader hung on four equal elastic hangers with an eccentric load e: the hangers
+    share the load as a rigid beam on equal springs, F_i = P/n + P e x_i / Σx_i² (common practice: the
+    pile-group or bolt-group formula for a rigid cap on equal supports). Indeterminate to degree 2."""
+    xs = [-3.0, -1.0, 1.0, 3.0]
+    e, P = 0.8, 100.0
+    src = f"""
+[body.spreader]
+points = {{ H0 = [-3, 0], H1 = [-1, 0], E = [{e}, 0], H2 = [1, 0], H3 = [3, 0] }}
+section = "stiff"
+[body.ceiling]
+points = {{ {", ".join(f"K{i} = [{x}, 2]" for i, x in enumerate(xs))} }}
+section = "stiff"
+[support.guide]
+at = "spreader.H0"
+kind = "roller"
+normal = [1, 0]
+[case.c]
+[[load]]
+case = "c"
+at = "spreader.E"
+force = [0, {-P}]
+"""
+    for i in range(4):
+        src += f'[support.A{i}]\nat = "ceiling.K{i}"\nkind = "fixed"\n'
+        src += f'[link.sling{i}]\nends = ["ceiling.K{i}", "spreader.H{i}"]\nkind = "cable"\nEA = "1000 kN"\n'
+    job = job_of(src)
+    sol = solve(job)
+    assert sol.solver == stiffness.SOLVER
+    # a stiff body on soft springs costs digits (its rigid motion dwarfs its strain): 7e-9 here
+    assert sol.residual <= stiffness.RESIDUAL_TOL
+    s2 = sum(x * x for x in xs)
+    for i, x in enumerate(xs):
+        # the formula takes the spreader as rigid; its own bending (1 m^4) against the slings' stretch
+        # (EA 1000 kN over 2 m) moves the shares by 1.7e-5 (1.7e-3 with EA 100 000 kN: it is physical)
+        assert_allclose(sol.links[f"sling{i}"][0], (P / 4 + P * e * x / s2) * 1e3, rtol=1e-4)
