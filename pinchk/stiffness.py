@@ -546,7 +546,13 @@ def _collect(job: Job, m: _Model, U, tension, reaction, slack) -> StiffnessResul
             f"the stiffness solution does not satisfy equilibrium (relative residual {residual:.2e} > "
             f"{RESIDUAL_TOL:.0e}); the equations are ill-conditioned: check for members of very different "
             f"stiffness, very short members or nearly coincident points")))
-    sol = FrameSolution(cases, pins, tension, reaction, residual=residual, solver=SOLVER)
+    notes = [("stiffness solve: the forces depend on the sections (E, A, I) and link EA given and on the "
+              "supports' fixity; check them")]
+    for c, sl in slack.items():
+        gone = [cases[j] for j in np.flatnonzero(sl)]
+        if gone:
+            notes.append(f"cable {c} is slack (carries nothing) in load case(s) {', '.join(gone)}")
+    sol = FrameSolution(cases, pins, tension, reaction, residual=residual, solver=SOLVER, warnings=tuple(notes))
     return StiffnessResult(sol, disp, member_forces, slack)
 
 
