@@ -50,7 +50,7 @@ SOLVER = "direct stiffness (2D linear-elastic frame, pinned releases)"
 #: fewer than about three significant digits would survive in the forces).
 COND_LIMIT = 1e-3 / np.finfo(float).eps
 #: A singular system up to this many equations is decomposed by a dense SVD to say where it is singular.
-DENSE_LIMIT = 2500
+DENSE_LIMIT = 1500
 #: Equilibrium residual allowed, relative to the largest force. Looser than statics' 1e-9 because the
 #: forces come from displacements: where a member is much shorter than its neighbours, its stiffness
 #: (~ 1/L³) swamps theirs at the shared node and about (L_long / L_short)³ · eps of the force is lost
@@ -340,10 +340,16 @@ class _System:
             cond = math.inf
         if not cond <= COND_LIMIT:
             if size <= DENSE_LIMIT:
-                U, sv, Vt = np.linalg.svd(self.M.toarray())
-                tol = max(size * np.finfo(float).eps * 1e3, 1.0 / COND_LIMIT) * (sv[0] if sv.size else 1.0)
-                k = max(int((sv <= tol).sum()), 1)
-                self.singular = self._explain(Vt[size - k:], k)
+                _, sv, Vt = np.linalg.svd(self.M.toarray())
+                k = int((sv <= size * np.finfo(float).eps * 10 * (sv[0] if sv.size else 1.0)).sum())
+                if k:
+                    self.singular = self._explain(Vt[size - k:], k)
+                else:
+                    self.singular = (
+                        f"the stiffness equations are ill-conditioned (condition number about {cond:.0e}): "
+                        f"stiffnesses differ by too many orders, e.g. a near-rigid section beside soft links "
+                        f"or a very short member beside long ones; give realistic sections, and leave out "
+                        f"EA for a link meant to be rigid")
             else:
                 self.singular = ("the stiffness equations are singular: the structure is a mechanism, or rigid "
                                  "links and supports fight each other (too large to locate where)")
@@ -382,7 +388,8 @@ class _System:
         if in_u >= in_c:
             return (f"the structure is a mechanism with {k} degree(s) of freedom: it can move without "
                     f"straining any member (involved: {where}); add a support or a link, or give a body "
-                    f"more members")
+                    f"more members (if it cannot move, look for stiffnesses many orders apart, such as a "
+                    f"near-rigid section hung on very soft links)")
         return (f"{k} rigid constraint(s) fight each other: these rigid links and supports hold the same "
                 f"movement, so no stiffness can share the force between them (involved: {where}); give the "
                 f"links an EA, or remove a redundant support")
@@ -402,7 +409,7 @@ def analyse(job: Job, max_cable_rounds: int = MAX_CABLE_ROUNDS) -> StiffnessResu
     Raises:
         StructureError: a body without a section or with members that do not join its points; a
             mechanism; rigid constraints that fight each other; a cable iteration that does not settle;
-            an equilibrium residual above pinchk.frame.RESIDUAL_TOL.
+            an equilibrium residual above RESIDUAL_TOL.
     """
     _check_bodies(job)
     m = _Model(job)
