@@ -559,8 +559,25 @@ def _collect(job: Job, m: _Model, U, tension, reaction, slack) -> StiffnessResul
         gone = [cases[j] for j in np.flatnonzero(sl)]
         if gone:
             notes.append(f"cable {c} is slack (carries nothing) in load case(s) {', '.join(gone)}")
+    notes += _superposition_notes(job, cases, slack)
     sol = FrameSolution(cases, pins, tension, reaction, residual=residual, solver=SOLVER, warnings=tuple(notes))
     return StiffnessResult(sol, disp, member_forces, slack)
+
+
+def _superposition_notes(job: Job, cases: tuple[str, ...], slack: dict[str, npt.NDArray[np.bool_]]) -> list[str]:
+    """Combinations are linear sums of the solved cases (pinchk.combine); a tension-only cable breaks
+    that when it is slack in some of the cases summed, or when a case enters with a negative factor."""
+    out = []
+    for combo in (getattr(job, "combinations", None) or {}).values():
+        used = [(c, f) for c, f in combo.factors.items() if f != 0 and c in cases]
+        for cable, sl in slack.items():
+            states = {bool(sl[cases.index(c)]) for c, _ in used}
+            taut_negative = any(f < 0 and not sl[cases.index(c)] for c, f in used)
+            if len(states) > 1 or taut_negative:
+                out.append(f"combination {combo.name}: cable {cable} is taut in some of its cases and slack in "
+                           f"others, or enters with a negative factor; a sum of solved cases is not exact for a "
+                           f"tension-only cable: solve the combined loads as a load case of their own")
+    return out
 
 
 def solve(job: Job) -> FrameSolution:

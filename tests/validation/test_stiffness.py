@@ -935,3 +935,17 @@ force = [0, {-P}]
         # the formula takes the spreader as rigid; its own bending (1 m^4) against the slings' stretch
         # (EA 1000 kN over 2 m) moves the shares by 1.7e-5 (1.7e-3 with EA 100 000 kN: it is physical)
         assert_allclose(sol.links[f"sling{i}"][0], (P / 4 + P * e * x / s2) * 1e3, rtol=1e-4)
+
+
+def test_combination_over_a_slack_cable_is_flagged():
+    """Combinations are sums of solved cases (pinchk.combine): not exact for a cable that is slack in
+    one of the cases summed, so the stiffness solve warns; a combination of one taut case does not."""
+    src = CABLE_PROP + """
+[combination.mix]
+cases = { down = 1.0, up = 0.5 }
+[combination.only_down]
+cases = { down = 1.35 }
+"""
+    sol = solve(job_of(src))
+    notes = [w for w in sol.warnings if w.startswith("combination")]
+    assert len(notes) == 1 and "combination mix: cable hanger" in notes[0]
