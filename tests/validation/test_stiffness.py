@@ -3,9 +3,11 @@
 Sources of the check values (each case names its own):
 
 - AISC, Steel Construction Manual, 15th ed. (2017), Part 3, Table 3-23 "Shears, Moments and
-  Deflections": diagram 13 (beam fixed at one end, supported at the other, concentrated load at centre),
-  diagram 29/30 (continuous beam, two equal spans, concentrated load at the centre of one span / of both
-  spans). Diagram numbers and formulas from memory; each is also checked against sympy below.
+  Deflections", the diagrams titled "beam fixed at one end, supported at other" (uniform load,
+  concentrated load at centre, concentrated load at any point) and "continuous beam, two equal spans"
+  (uniform load; concentrated load at centre of one span; of both spans). The formulas are from memory
+  and the diagram numbers are not given because I could not fix them without the Manual at hand; every
+  formula used is also checked against sympy's Beam or against equilibrium below.
 - A. Kleinlogel, Rigid Frame Formulas (Ungar, 1958), the rectangular single-bay portal with fixed feet
   and with hinged feet, under a horizontal load at beam level and a vertical load at mid-span, with
   k = (I_beam / I_column) (h / L). Formulas from memory, and re-derived in the docstrings below by the
@@ -246,7 +248,8 @@ def test_example_jib_bracket_with_a_section_agrees():
 # ---------------------------------------------------------------- propped cantilever
 
 def test_propped_cantilever_centre_load_aisc():
-    """AISC Manual Table 3-23 diagram 13 (from memory): R_prop = 5P/16, R_fixed = 11P/16, M_fixed = 3PL/16."""
+    """AISC Manual Table 3-23, beam fixed at one end, supported at other, concentrated load at centre
+    (from memory): R_prop = 5P/16, R_fixed = 11P/16, M_fixed = 3PL/16."""
     P, L = 40.0e3, 6.0
     job = beam_job({"A": 0, "C": L / 2, "B": L}, {"A": "fixed", "B": "roller"}, [("C", -P / 1e3, 0)])
     sol = solve(job)  # auto: statics finds it indeterminate to degree 1
@@ -262,8 +265,9 @@ def test_propped_cantilever_centre_load_aisc():
        I=st.sampled_from(["2e7 mm^4", "1.2e8 mm^4", "9e8 mm^4"]))
 def test_propped_cantilever_load_anywhere_aisc(L, frac, P, I):
     """P at a from the fixed end (b = L - a): R_prop = P a²(3L - a)/(2L³), M_fixed = P a b (L + b)/(2L²)
-    (AISC Manual Table 3-23 diagram 15, from memory, written with a from the fixed end; it gives 5P/16
-    at a = L/2, as diagram 13). E and I do not enter: only one stiffness shares the load."""
+    (AISC Manual Table 3-23, beam fixed at one end, supported at other, concentrated load at any point,
+    from memory, written with a from the fixed end; it gives 5P/16 at a = L/2, as the centre-load case).
+    E and I do not enter: only one stiffness shares the load."""
     a = frac * L
     job = beam_job({"A": 0, "C": a, "B": L}, {"A": "fixed", "B": "roller"}, [("C", -P, 0)], I=I)
     sol = solve(job)
@@ -274,9 +278,10 @@ def test_propped_cantilever_load_anywhere_aisc(L, frac, P, I):
 
 
 def test_propped_cantilever_udl_lumped_converges_to_handbook():
-    """UDL w on a propped cantilever: R_prop = 3wL/8, M_fixed = wL²/8 (AISC Table 3-23 diagram 12, from
-    memory). The job format has point loads only, so w is lumped as n equal loads at segment midpoints;
-    the lumped answer differs from the UDL by O(1/n²), hence the 1e-3 tolerance."""
+    """UDL w on a propped cantilever: R_prop = 3wL/8, M_fixed = wL²/8 (AISC Table 3-23, fixed at one end,
+    supported at other, uniformly distributed load; from memory). The job format has point loads only,
+    so w is lumped as n equal loads at segment midpoints; the lumped answer differs from the UDL by
+    O(1/n²), hence the 1e-3 tolerance."""
     w, L, n = 10.0, 8.0, 40
     xs = {"A": 0.0}
     loads = []
@@ -339,8 +344,9 @@ def test_propped_cantilever_against_sympy_beam():
 
 def test_two_span_point_loads_aisc():
     """Two equal spans L, P at the centre of each: R_mid = 11P/8, R_end = 5P/16 (AISC Table 3-23
-    diagram 30, from memory); P on one span only: R_loaded end = 13P/32, R_mid = 11P/16, R_far = -3P/32
-    (diagram 29, from memory)."""
+    continuous beam, two equal spans, concentrated load at centre of each span; from memory); P on one
+    span only: R_loaded end = 13P/32, R_mid = 11P/16, R_far = -3P/32 (same table, concentrated load at
+    centre of one span; from memory, confirmed here with sympy's Beam)."""
     P, L = 50.0, 4.0
     xs = {"A": 0, "D": L / 2, "B": L, "E": 1.5 * L, "C": 2 * L}
     sup = {"A": "pinned", "B": "roller", "C": "roller"}
@@ -348,6 +354,9 @@ def test_two_span_point_loads_aisc():
     assert_allclose(both.supports["SB"][0, 1], 11 * P / 8 * 1e3, rtol=1e-9)
     assert_allclose(both.supports["SA"][0, 1], 5 * P / 16 * 1e3, rtol=1e-9)
     assert_allclose(both.supports["SC"][0, 1], 5 * P / 16 * 1e3, rtol=1e-9)
+    ref = _sympy_reactions(2 * L, {0.0: "pin", L: "roller", 2 * L: "roller"}, [(L / 2, -P * 1e3, 0.0)])
+    assert_allclose([ref[0.0][0], ref[L][0], ref[2 * L][0]], [13 * P / 32 * 1e3, 11 * P / 16 * 1e3,
+                                                               -3 * P / 32 * 1e3], rtol=1e-12)
     one = solve(beam_job(xs, sup, [("D", -P, 0)]))
     assert_allclose(one.supports["SA"][0, 1], 13 * P / 32 * 1e3, rtol=1e-9)
     assert_allclose(one.supports["SB"][0, 1], 11 * P / 16 * 1e3, rtol=1e-9)
@@ -355,7 +364,8 @@ def test_two_span_point_loads_aisc():
 
 
 def test_two_span_udl_lumped_converges_to_handbook():
-    """Two equal spans under UDL w: R_mid = 10wL/8 = 1.25wL, R_end = 3wL/8 (AISC Table 3-23 diagram 28,
+    """Two equal spans under UDL w: R_mid = 10wL/8 = 1.25wL, R_end = 3wL/8 (AISC Table 3-23, continuous
+    beam, two equal spans, uniform load,
     from memory). Lumped as point loads (see the propped-cantilever UDL test): tolerance 1e-3."""
     w, L, n = 5.0, 6.0, 30
     xs, loads = {"A": 0.0}, []
@@ -525,7 +535,7 @@ def test_cable_prop_taut_and_slack():
     """A cantilever whose tip hangs from an axially rigid cable to a fixed anchor.
 
     Down: the cable is a rigid prop, so the propped-cantilever result holds, T = 5P/16 (AISC Table
-    3-23 diagram 13, from memory). Up: the cable would push, so it goes slack and the beam is a plain
+    3-23, centre load, from memory). Up: the cable would push, so it goes slack and the beam is a plain
     cantilever: R = P, M = PL/2 at the wall (statics).
     """
     job = job_of(CABLE_PROP)
