@@ -959,3 +959,52 @@ cases = { down = 1.35 }
     sol = solve(job_of(src))
     notes = [w for w in sol.warnings if w.startswith("combination")]
     assert len(notes) == 1 and "combination mix: cable hanger" in notes[0]
+
+
+def test_maxwell_betti_reciprocity():
+    """Betti's reciprocal theorem (any linear-elastic text, e.g. Timoshenko & Young, Theory of
+    Structures; common practice): the work of one load set on the displacements of another equals the
+    reverse. Checked on an unsymmetric fixed portal with a force at a knee, a force at mid-beam and a
+    moment at the other knee; the stiffness matrix must be right, not merely symmetric in form."""
+    src = """
+[section.col]
+E = "200 GPa"
+A = "9000 mm^2"
+I = "1.1e8 mm^4"
+[section.bm]
+E = "200 GPa"
+A = "6000 mm^2"
+I = "2.3e8 mm^4"
+[body.frame]
+points = { A = [0, 0], B = [0.5, 4], M = [3, 4.5], C = [7, 4], D = [7, -1] }
+members = [["A", "B", "col"], ["B", "M", "bm"], ["M", "C", "bm"], ["C", "D", "col"]]
+[support.SA]
+at = "frame.A"
+kind = "fixed"
+[support.SD]
+at = "frame.D"
+kind = "pinned"
+[case.one]
+[case.two]
+[case.three]
+[[load]]
+case = "one"
+at = "frame.B"
+force = [12, 0]
+[[load]]
+case = "two"
+at = "frame.M"
+force = [0, -30]
+[[load]]
+case = "three"
+at = "frame.C"
+moment = "8 kN*m"
+"""
+    res = stiffness.analyse(job_of(src))
+    d = res.displacement
+    uB, uM, uC = d[("frame", "B")], d[("frame", "M")], d[("frame", "C")]
+    F1, F2, M3 = 12e3, -30e3, 8e3
+    assert_allclose(F1 * uB[1, 0], F2 * uM[0, 1], rtol=1e-9)  # cases one and two
+    assert_allclose(F1 * uB[2, 0], M3 * uC[0, 2], rtol=1e-9)  # one and three
+    assert_allclose(F2 * uM[2, 1], M3 * uC[1, 2], rtol=1e-9)  # two and three
+    assert abs(uB[1, 0]) > 1e-6  # the cases do move each other: the check is not 0 = 0
