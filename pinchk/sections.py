@@ -101,6 +101,9 @@ def attach_to_bodies(r, data: dict, bodies: dict[str, Body], sections: dict[str,
                 if ok and math.dist(body.points[pair[0]], body.points[pair[1]]) <= 1e-9:
                     r.bad(where, "members", f"member {pair!r} has no length: its two points are at one place")
                     ok = None
+                if ok and any({pair[0], pair[1]} == {a, b} for a, b in pairs):
+                    r.bad(where, "members", f"member {pair!r} is listed twice; list each member once")
+                    ok = None
                 pairs.append((pair[0], pair[1]))
             if ok is False:
                 r.bad(where, "members", "expected a list of point pairs, each with an optional section, e.g. "

@@ -722,6 +722,10 @@ def test_job_file_fields_are_checked():
         'section = "beam"', 'section = "beam"\nmembers = [["A", "Q"]]')
     with pytest.raises(InputError, match="no point 'Q'"):
         job_of(bad)
+    bad = DETERMINATE["simple beam, load and moment"].replace(
+        'section = "beam"', 'section = "beam"\nmembers = [["A", "C"], ["C", "B"], ["B", "C"]]')
+    with pytest.raises(InputError, match="listed twice"):
+        job_of(bad)
     with pytest.raises(InputError, match="area"):
         job_of(DETERMINATE["simple beam, load and moment"], A="8000 mm")
 
