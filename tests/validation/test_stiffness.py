@@ -24,6 +24,7 @@ Every stiffness solution is also checked for equilibrium of every body and pin f
 from __future__ import annotations
 
 import dataclasses
+import json
 import subprocess
 import sys
 import tomllib
@@ -1012,3 +1013,20 @@ moment = "8 kN*m"
     assert_allclose(F1 * uB[2, 0], M3 * uC[0, 2], rtol=1e-9)  # one and three
     assert_allclose(F2 * uM[2, 1], M3 * uC[1, 2], rtol=1e-9)  # two and three
     assert abs(uB[1, 0]) > 1e-6  # the cases do move each other: the check is not 0 = 0
+
+
+def test_cli_json_names_the_solver_and_an_unsolvable_job_exits_2(tmp_path):
+    """The JSON view says which solve ran; an indeterminate job without sections is an input error
+    (exit 2) with both findings, never a traceback."""
+    path = ROOT / "examples" / "portal_gantry_fixed.toml"
+    out = subprocess.run([sys.executable, "-m", "pinchk", "run", str(path), "--format", "json"],
+                         capture_output=True, text=True, cwd=ROOT)
+    data = json.loads(out.stdout)
+    assert data["solver"] == stiffness.SOLVER
+    bad = tmp_path / "no_sections.toml"
+    bad.write_text(path.read_text().replace('section = "column"', ""))
+    out = subprocess.run([sys.executable, "-m", "pinchk", "run", str(bad)], capture_output=True, text=True,
+                         cwd=ROOT)
+    assert out.returncode == 2
+    assert "statically indeterminate" in out.stderr and "has no section" in out.stderr
+    assert "Traceback" not in out.stderr
