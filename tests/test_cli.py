@@ -282,3 +282,14 @@ def test_json_is_strict_json_for_every_method(write_job, capsys):
         for row in d["checks"]:
             if row["utilization"] is None:
                 assert row["status"] == "FAIL"
+
+
+def test_readme_states_the_demo_verdict(capsys):
+    """The README's description of the demo's output quotes the verdict the demo really prints."""
+    import re
+
+    readme = " ".join((ROOT / "README.md").read_text(encoding="utf-8").split())
+    quoted = re.search(r"\(here `(PASS: [^`]*)`\)", readme)
+    assert quoted, "README no longer quotes the demo's verdict"
+    rc, out, _ = main(capsys, "run", DEMO)
+    assert quoted.group(1) in out.splitlines()
