@@ -293,3 +293,26 @@ def test_readme_states_the_demo_verdict(capsys):
     assert quoted, "README no longer quotes the demo's verdict"
     rc, out, _ = main(capsys, "run", DEMO)
     assert quoted.group(1) in out.splitlines()
+
+
+def test_methods_and_materials_commands(capsys):
+    from pinchk.materials import library
+    from pinchk.methods import METHODS
+
+    rc, out, _ = main(capsys, "methods")
+    assert rc == 0
+    for name, m in METHODS.items():
+        assert f"{name}: {m.EDITION}" in out
+        for k, (v, _what) in m.FACTORS.items():
+            assert f"  {k} = {v:g}" in out
+    rc, out, _ = main(capsys, "materials")
+    assert rc == 0
+    rows = [r for rs in library().values() for r in rs]
+    assert len(out.strip().splitlines()) == len(rows)
+    assert all(r.source in out for r in rows)
+
+
+def test_all_cases_and_no_forces(capsys):
+    rc, out, _ = main(capsys, "run", DEMO, "--all-cases", "--no-forces")
+    assert rc == 0
+    assert "Checks, every case" in out and "Force each member receives" not in out
