@@ -13,6 +13,7 @@ from __future__ import annotations
 import csv
 import io
 import json
+import math
 import os
 import subprocess
 import sys
@@ -82,6 +83,10 @@ def test_json_contract(demo_json):
     jf = d["joint_forces"]
     assert jf and {"case", "pin", "member", "fx", "fy", "resultant", "unit"} <= set(jf[0])
     assert {(r["pin"], r["member"]) for r in jf} >= {("P_apex", "leg_left"), ("P_apex", "load"), ("PL", "tie")}
+    for r in jf:  # components, resultant and its angle from +x, counter-clockwise
+        assert r["resultant"] == pytest.approx(math.hypot(r["fx"], r["fy"]), rel=1e-12, abs=1e-12)
+        if r["resultant"] > 1e-9:
+            assert r["angle_deg"] == pytest.approx(math.degrees(math.atan2(r["fy"], r["fx"])), abs=1e-9)
     assert "caution" in d and "qualified engineer" in d["caution"]
 
 
