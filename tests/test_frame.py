@@ -472,3 +472,67 @@ def test_three_hinged_arch_any_geometry(L, xc_frac, h, a_frac, P, Q):
     np.testing.assert_allclose(sol.supports["sa"][0, :2], [HA * 1e3, VA * 1e3], rtol=1e-9, atol=1e-9 * scale)
     np.testing.assert_allclose(sol.supports["sb"][0, :2], [-HB * 1e3, VB * 1e3], rtol=1e-9, atol=1e-9 * scale)
     assert equilibrium_residual(job, sol) < 1e-12
+
+
+# ----------------------------------------------------------------------------------------------------
+# large structures: past the dense rank limit the sparse factorization decides
+
+def _warren(panels: int, drop: int | None = None, both_pinned: bool = False):
+    """A Warren truss of links: bottom joints B0..Bn at x = i m, top joints at x = i + 0.5, y = 1 m;
+    1 kN down at every inner bottom joint; pinned at B0, roller (or pinned) at Bn."""
+    import tomllib
+
+    from pinchk.jobfile import parse_job
+
+    lines = ['[job]', 'title = "warren"', '[units]', 'length = "m"', 'force = "kN"', '[method]',
+             'name = "EN 1993-1-8"', '[case.c]']
+    for i in range(panels + 1):
+        lines += [f"[pin.B{i}]", f"at = [{i}, 0]"]
+    for i in range(panels):
+        lines += [f"[pin.T{i}]", f"at = [{i + 0.5}, 1]"]
+    bars = [(f"B{i}", f"B{i + 1}") for i in range(panels)] + [(f"B{i}", f"T{i}") for i in range(panels)]
+    bars += [(f"T{i}", f"B{i + 1}") for i in range(panels)] + [(f"T{i}", f"T{i + 1}") for i in range(panels - 1)]
+    for k, (a, b) in enumerate(bars):
+        if k != drop:
+            lines += [f"[link.m{k}]", f'ends = ["{a}", "{b}"]']
+    lines += ['[support.s0]', 'at = "B0"', 'kind = "pinned"', '[support.s1]', f'at = "B{panels}"']
+    lines += ['kind = "pinned"'] if both_pinned else ['kind = "roller"', 'normal = [0, 1]']
+    for i in range(1, panels):
+        lines += ['[[load]]', 'case = "c"', f'at = "B{i}"', 'force = [0, -1]']
+    return parse_job(tomllib.loads("\n".join(lines)))
+
+
+def test_large_structure_sparse_path(monkeypatch):
+    """With the dense rank limit lowered, the sparse path solves a 40-panel truss: by symmetry each
+    support carries half of the 39 kN; the bottom chord under top joint T19 (x = 19.5 m) carries the
+    beam moment there over the depth h = 1 m (method of sections about T19):
+    M = 19.5 · 19.5 − Σ_{i=1..19} (19.5 − i) = 380.25 − 180.5 = 199.75 kN·m, so 199.75 kN tension."""
+    monkeypatch.setattr(frame, "DENSE_RANK_LIMIT", 50)
+    job = _warren(40)
+    sol = solve(job)
+    np.testing.assert_allclose(sol.supports["s1"][0, 1], 19.5e3, rtol=1e-12)
+    np.testing.assert_allclose(sol.supports["s0"][0, :2], [0.0, 19.5e3], rtol=1e-12, atol=1e-6)
+    np.testing.assert_allclose(sol.links["m19"][0], 199.75e3, rtol=1e-12)  # m19: B19-B20
+    assert equilibrium_residual(job, sol) < 1e-13
+
+
+def test_large_three_hinged_truss(monkeypatch):
+    """The same truss without bottom bar B5-B6 and with both supports pinned is a three-hinged arch,
+    hinge at T5 (x = 5.5 m, h = 1 m): the thrust is H = M0(5.5) / h with the simple-beam moment
+    M0 = 19.5 · 5.5 − Σ_{i=1..5} (5.5 − i) = 107.25 − 12.5 = 94.75 kN·m, so H = 94.75 kN."""
+    monkeypatch.setattr(frame, "DENSE_RANK_LIMIT", 50)
+    sol = solve(_warren(40, drop=5, both_pinned=True))
+    np.testing.assert_allclose(sol.supports["s0"][0, :2], [94.75e3, 19.5e3], rtol=1e-9)
+    np.testing.assert_allclose(sol.supports["s1"][0, :2], [-94.75e3, 19.5e3], rtol=1e-9)
+
+
+def test_large_singular_structure_is_refused(monkeypatch):
+    """Past the dense limit, without diagonal T5-B6 panel 5 is a four-bar mechanism: with an extra
+    support (unknowns and equations equal in number, the equations singular), and alone (one equation
+    too many), both are StructureErrors."""
+    monkeypatch.setattr(frame, "DENSE_RANK_LIMIT", 50)
+    diagonal = 2 * 40 + 5  # bars: 40 bottom, 40 B_i-T_i, then T_i-B_i+1
+    with pytest.raises(StructureError, match="singular"):
+        solve(_warren(40, drop=diagonal, both_pinned=True))
+    with pytest.raises(StructureError, match="mechanism"):
+        solve(_warren(40, drop=diagonal))
