@@ -2,13 +2,15 @@
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 
 import numpy as np
 import numpy.typing as npt
 
+from . import joint
 from .frame import FrameSolution
-from .methods import METHODS, Check, factors_for
+from .methods import METHODS, Check, factors_for, make_check
+from .methods.lug_base import BASE_CHECKS
 from .model import Job
 from .stack import StackResult, solve_stack
 
@@ -34,6 +36,12 @@ class Results:
     columns: dict[str, object]
     assumptions: tuple[str, ...] = field(default_factory=tuple)
     unchecked: tuple[str, ...] = field(default_factory=tuple)
+    #: (pin, part) -> geometry along the force of each case: angle [rad], a, c_pos, c_neg [m] (n_case,)
+    geometry: dict[tuple[str, str], dict[str, npt.NDArray[np.float64]]] = field(default_factory=dict)
+    #: pin -> axial force its retainer takes in each case [N] (lugs with a lateral load), (n_case,)
+    pin_axial: dict[str, npt.NDArray[np.float64]] = field(default_factory=dict)
+    #: load-angle sweep of every lug plate (pinchk.sweep.LugSweep)
+    sweeps: tuple = field(default_factory=tuple)
 
     def __len__(self) -> int:
         return len(self.columns["check"])
@@ -64,14 +72,6 @@ class Results:
         return pd.DataFrame({k: list(v) if isinstance(v, tuple) else v for k, v in self.columns.items()})
 
 
-def _part_names(pin) -> list[str]:
-    names = []
-    for i, p in enumerate(pin.stack):
-        same = [j for j, q in enumerate(pin.stack) if q.member == p.member]
-        names.append(p.member if len(same) == 1 else f"{p.member} {same.index(i) + 1}/{len(same)}")
-    return names
-
-
 def run_checks(job: Job, sol: FrameSolution) -> Results:
     """Check every pin of ``job`` that has a stack, for every load case of ``sol``."""
     mod = METHODS[job.method.name]
@@ -85,10 +85,18 @@ def run_checks(job: Job, sol: FrameSolution) -> Results:
 
     stacks: dict[str, StackResult] = {}
     P = {k: [] for k in ("d", "fup", "fyp", "V", "M", "uls", "ser")}
-    Q = {k: [] for k in ("F", "t", "d", "d0", "fy", "fu", "fyp", "E", "a_end", "width", "type_b", "rot",
-                         "uls", "ser")}
+    Q: dict[str, list] = {}  # plate parts
+    B: dict[str, list] = {}  # bushings: only the checks that do not depend on an outline
+    L: dict[str, list] = {}  # lug bases under a lateral load
     pin_lab: list[str] = []
     plate_lab: list[tuple[str, str]] = []
+    bush_lab: list[tuple[str, str]] = []
+    base_lab: list[tuple[str, str]] = []
+    plate_note: list[str] = []
+    geometry: dict[tuple[str, str], dict] = {}
+    pin_axial: dict[str, np.ndarray] = {}
+    group_notes: list[str] = []
+    no_base: list[str] = []
     for name, pin in job.pins.items():
         if not pin.checked:
             continue
@@ -103,30 +111,49 @@ def run_checks(job: Job, sol: FrameSolution) -> Results:
         P["uls"].append(uls_case)
         P["ser"].append(ser)
         pin_lab.append(name)
-        for k, (plate, part) in enumerate(zip(pin.stack, _part_names(pin))):
-            if not plate.checked:
-                continue
-            m = plate.material
-            Q["F"].append(np.linalg.norm(st.plate_force[:, k, :], axis=-1))
-            for key, val in (("t", plate.thickness), ("d", pin.diameter), ("d0", plate.hole), ("fy", m.fy),
-                             ("fu", m.fu), ("fyp", pin.material.fy), ("E", m.E), ("a_end", plate.end),
-                             ("width", plate.width)):
-                Q[key].append(np.full(nc, val))
-            Q["type_b"].append(np.full(nc, plate.en_type == "B"))
-            Q["rot"].append(np.full(nc, pin.rotates))
-            Q["uls"].append(uls_case)
-            Q["ser"].append(ser)
-            plate_lab.append((name, part))
+        axial = np.zeros(nc)
+        for part in joint.parts_of(pin):
+            f_part = part.force(st)
+            cols_ = joint.columns(pin, part, f_part, uls_case, ser)
+            into, labels = (Q, plate_lab) if part.kind == "plate" else (B, bush_lab)
+            for key, v in cols_.items():
+                into.setdefault(key, []).append(v)
+            labels.append((name, part.label))
+            if part.kind == "plate":
+                plate_note += joint.off_axis_note(pin, part, cols_["angle"])
+                geometry[(name, part.label)] = {k: cols_[k] for k in ("angle", "a", "c_pos", "c_neg")}
+                if note := joint.share_note(pin, st, part):
+                    group_notes.append(note)
+            lat = joint.lateral_columns(pin, part, f_part, cases)
+            if lat is not None:
+                axial += lat["H"]
+                if job.method.name in BASE_CHECKS:
+                    for key, v in lat.items():
+                        L.setdefault(key, []).append(v)
+                    base_lab.append((name, part.label))
+                else:
+                    no_base.append(f"{name} {part.label}")
+        if axial.any() or pin.retainer is not None:
+            pin_axial[name] = axial
 
     cols: dict[str, list] = {k: [] for k in COLUMNS}
 
-    def emit(checks: list[Check], labels: list[tuple[str, str]]) -> None:
+    dropped = [0]
+
+    def emit(checks: list[Check], labels: list[tuple[str, str]], notes: list[str] | None = None,
+             keep=None) -> None:
         n = len(labels)
         pins_ = np.repeat([p for p, _ in labels], nc) if n else np.array([], dtype=str)
         parts = np.repeat([q for _, q in labels], nc) if n else np.array([], dtype=str)
         case_col = np.tile(np.array(cases, dtype=object), n)
         for ch in checks:
+            if keep is not None and not keep(ch.name):
+                continue
             mask = np.ones(n * nc, bool) if ch.mask is None else np.asarray(ch.mask, bool)
+            # a capacity without bound: the force runs into the body of the plate (no free edge ahead)
+            unbounded = mask & np.isposinf(ch.capacity)
+            dropped[0] += int(unbounded.sum())
+            mask = mask & ~unbounded
             if not mask.any():
                 continue
             dem, cap = ch.demand[mask], ch.capacity[mask]
@@ -145,14 +172,30 @@ def run_checks(job: Job, sol: FrameSolution) -> Results:
             cols["clause"] += [ch.clause] * k
             cols["formula"] += [ch.formula] * k
             cols["factors"] += [ch.factors] * k
-            cols["note"] += [ch.note] * k
+            if notes is None or any(w in ch.name for w in joint.OUTLINE_FREE):
+                cols["note"] += [ch.note] * k
+            else:
+                cols["note"] += ["; ".join(x for x in (ch.note, notes[i]) if x) for i in np.flatnonzero(mask)]
 
     if pin_lab:
         Pa = {k: np.concatenate(v) for k, v in P.items()}
         emit(mod.pin_checks(Pa, fac, variant), [(p, "pin") for p in pin_lab])
     if plate_lab:
         Qa = {k: np.concatenate(v) for k, v in Q.items()}
-        emit(mod.plate_checks(Qa, fac, variant), plate_lab)
+        emit(mod.plate_checks(Qa, fac, variant), plate_lab, plate_note)
+    if bush_lab:
+        Ba = {k: np.concatenate(v) for k, v in B.items()}
+        emit(mod.plate_checks(Ba, fac, variant), bush_lab, keep=lambda c: any(w in c for w in joint.OUTLINE_FREE))
+    if base_lab:
+        La = {k: np.concatenate(v) for k, v in L.items()}
+        emit(BASE_CHECKS[job.method.name](La, fac, variant), base_lab)
+    ret = [(n, job.pins[n].retainer) for n in pin_axial if job.pins[n].retainer is not None]
+    if ret:
+        emit([make_check("pin axial force (retainer)", "retainer capacity as given in the job: "
+                         "axial force ≤ retainer capacity", "force",
+                         np.concatenate([pin_axial[n] for n, _ in ret]), np.repeat([r for _, r in ret], nc), "",
+                         None, "every lateral load on the pin's lugs taken through the pin to its retainer")],
+             [(n, "pin retainer") for n, _ in ret])
 
     columns: dict[str, object] = {}
     for k in COLUMNS:
@@ -163,12 +206,44 @@ def run_checks(job: Job, sol: FrameSolution) -> Results:
 
     notes = [f"{n}: {st.share_note}" for n, st in stacks.items()
              if len({p.member for p in job.pins[n].stack}) < len(job.pins[n].stack)]
-    notes.append("each plate is checked with the geometry along its lug axis, taken as the direction of "
-                 "its force (width across it, end distance along it)")
-    notes.append("pin moment from uniform bearing over each plate's thickness (EN 1993-1-8 Fig. 3.11 model); "
-                 "an unsymmetric stack's net couple is held by equal end couples at its outer faces")
+    notes += group_notes
+    checked = [p for n in stacks for p in job.pins[n].stack if p.checked]
+    if any(p.axis is None for p in checked):
+        notes.append("a plate without a lug axis is checked with its axis taken along the force of each case "
+                     "(end distance along the force, width across it)")
+    if any(p.axis is not None for p in checked):
+        notes.append("a plate with a lug axis is checked with the geometry of its outline along the actual "
+                     "force of each case: material beyond the hole along the force, the net section across it "
+                     "through the hole centre")
+    if dropped[0]:
+        notes.append(f"{dropped[0]} edge-distance rows left out: the force points into the body of the plate "
+                     "(through its base), so no free edge limits that mode")
+    for n in stacks:
+        if job.pins[n].wear > 0:
+            notes.append(f"{n}: holes taken {job.pins[n].wear * 1e3:g} mm larger for wear in every check")
+    models = {st.model for st in stacks.values()}
+    if "uniform" in models:
+        notes.append("pin moment from uniform bearing over each plate's thickness (EN 1993-1-8 Fig. 3.11 "
+                     "model); an unsymmetric stack's net couple is held by equal end couples at its outer faces")
+    if "point" in models:
+        notes.append("pins with pin_model = \"point\": each plate's force as a point load at its centre "
+                     "(conservative against uniform bearing)")
+    if bush_lab:
+        notes.append("bushings: the pin bears on the bushing's bore (its own material); the plate behind is "
+                     "checked with the bushing's outside diameter as its pin, fitted without clearance")
+    if base_lab:
+        notes.append("lateral loads act at the hole centre, out of the frame's plane; the lug's base section "
+                     "is checked for weak-axis bending with the in-plane force; the pin's retainer takes their "
+                     "sum (see pin_axial)")
+    if no_base:
+        notes.append(f"lateral loads given but {job.method.name} has no base-section check here: NOT checked "
+                     f"for {', '.join(no_base)}")
     if any(job.pins[n].replaceable for n in stacks) and not has_sls:
         notes.append("replaceable pins: no SLS case is given, so the serviceability checks use the ultimate "
                      "case forces (conservative)")
     unchecked = tuple(n for n, p in job.pins.items() if not p.checked)
-    return Results(job, sol, stacks, mod.NAME, mod.EDITION, variant, fac, columns, tuple(notes), unchecked)
+    res = Results(job, sol, stacks, mod.NAME, mod.EDITION, variant, fac, columns, tuple(notes), unchecked,
+                  geometry, pin_axial)
+    from .sweep import load_angle_sweep
+
+    return replace(res, sweeps=tuple(load_angle_sweep(res)))
