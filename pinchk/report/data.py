@@ -9,6 +9,7 @@ import json
 from .. import __version__
 from . import CAUTION
 from .common import convert, force_rows, unit_of, units_of, verdict
+from .joints import joint_dict
 
 CSV_COLUMNS = ("pin", "part", "check", "case", "demand", "capacity", "unit", "utilization", "status", "clause",
                "formula", "factors", "note")
@@ -56,6 +57,7 @@ def to_dict(results) -> dict:
                   for n, t in sol.links.items() for j, c in enumerate(sol.cases)],
         "solver": sol.solver,
         "equilibrium_residual": sol.residual,
+        "joints": joint_dict(results, units),
         "unchecked_pins": list(results.unchecked),
         "assumptions": list(results.assumptions),
         "caution": CAUTION,
