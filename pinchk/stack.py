@@ -75,8 +75,10 @@ class StackResult:
     def shear_cause(self, j: int) -> str:
         """Which plates make the governing shear of case ``j``: those on the side of its plane."""
         k = int(self.shear_plane[j])
+        left, right = self.parts[:k + 1], self.parts[k + 1:]
+        side = left if len(left) <= len(right) else right
         return f"plane {k + 1}-{k + 2}, between {self.parts[k]} and {self.parts[k + 1]}: the resultant of " \
-               f"{_listing(self.parts[:k + 1])} against {_listing(self.parts[k + 1:])}"
+               f"{_listing(side)} (the rest of the stack balances it)"
 
     def moment_cause(self, j: int) -> str:
         """Where the governing moment of case ``j`` lies and which plates' loads make it."""
