@@ -597,7 +597,7 @@ def _pins_stack(r: _Reader, pt: dict, frame: dict, links, supports, loads, own, 
                 elif th is not None:
                     pmat = _material(r, pw, "material", p["material"], th, own)
                 shape = r.text_field(pw, p, "shape", choices=["round", "square", "polygon"], default="round")
-                offset = shape == "round" and "arc_centre" in p
+                offset = shape == "round" and ("arc_centre" in p or "radius" in p)
                 width = r.qty(pw, p, "width", "length", required=shape != "polygon", positive=True)
                 end = r.qty(pw, p, "end", "length", required=shape != "polygon" and not offset, positive=True)
                 en_type = r.text_field(pw, p, "en_type", choices=["A", "B"], default="A")

@@ -97,7 +97,7 @@ def columns(pin: Pin, part: Part, f_vec: Array, uls, ser) -> dict[str, Array]:
         fyp = min(p.bushing.material.fy if p.bushing else pin.material.fy for p in plates)
         d0s = [p.bushing.outer if p.bushing else p.hole + pin.wear for p in plates]
         d0 = max(d0s)
-        geo = [lug.along(outline_of(p), h, f_vec, p.axis) for p, h in zip(plates, d0s)]
+        geo = [lug.along(outline_of(p), h, f_vec, p.axis) for p, h in zip(plates, d0s, strict=True)]
         a = np.min([g.a for g in geo], axis=0)
         cp = np.min([g.c_pos for g in geo], axis=0)
         cn = np.min([g.c_neg for g in geo], axis=0)
@@ -131,7 +131,7 @@ def share_note(pin: Pin, st: StackResult, part: Part) -> str:
     return (f"{pin.name} {part.label}: main plate and cheek plates checked together on their combined "
             f"thickness {sum(pin.stack[i].thickness for i in part.plates) * 1e3:g} mm (the lowest strength and "
             f"the smallest edge distances of them); they take " + ", ".join(
-                f"{n} {s / tot:.0%}" for n, s in zip(names, sh)) + " of the part's force; the weld or fit that "
+                f"{n} {s / tot:.0%}" for n, s in zip(names, sh, strict=True)) + " of the part's force; the weld or fit that "
             "makes them act together is not checked")
 
 

@@ -83,8 +83,8 @@ class StackResult:
     def moment_cause(self, j: int) -> str:
         """Where the governing moment of case ``j`` lies and which plates' loads make it."""
         i = int(self.moment_plate[j])
-        left = [p for p, z in zip(self.parts, self.z0 + self.thickness / 2) if z < self.moment_at[j]]
-        right = [p for p, z in zip(self.parts, self.z0 + self.thickness / 2) if z >= self.moment_at[j]]
+        left = [p for p, z in zip(self.parts, self.z0 + self.thickness / 2, strict=True) if z < self.moment_at[j]]
+        right = [p for p, z in zip(self.parts, self.z0 + self.thickness / 2, strict=True) if z >= self.moment_at[j]]
         side = left if len(left) <= len(right) else right
         where = f"in {self.parts[i]}" if i >= 0 else "at the stack's end"
         return f"{where}, {self.moment_at[j] * 1e3:.1f} mm from the first face: the loads of " \

@@ -24,7 +24,7 @@ STEEL = Material("S355", 355e6, 490e6, 210e9, "test")
 
 def make_pin(members, thick, gaps, model="uniform", shares=None):
     plates = tuple(Plate(m, t, g, None if shares is None else shares[i], STEEL, 0.2, 0.1, "round", 0.051, "A")
-                   for i, (m, t, g) in enumerate(zip(members, thick, gaps)))
+                   for i, (m, t, g) in enumerate(zip(members, thick, gaps, strict=True)))
     return Pin("P", (0.0, 0.0), tuple(sorted(set(members))), 0.05, STEEL, plates, pin_model=model)
 
 
@@ -72,7 +72,7 @@ def _sympy_moment(stack_z0, t, load, zs):
     out_M, out_V = [], []
     for k in range(2):
         beam = Beam(sp.nsimplify(L), 1, 1)
-        for z0, ti, f in zip(stack_z0, t, load):
+        for z0, ti, f in zip(stack_z0, t, load, strict=True):
             beam.apply_load(sp.Float(f[k] / ti, 30), sp.Float(z0, 30), 0, end=sp.Float(z0 + ti, 30))
         M = beam.bending_moment()
         V = beam.shear_force()
@@ -100,7 +100,7 @@ def test_stack_against_sympy_beam():
     A = np.array([[1.0, 1.0], [zbar[2], zbar[3]]])
     F34 = np.linalg.solve(A, -np.array([F1 + F2, F1 * zbar[0] + F2 * zbar[1]]))
     pin = make_pin(members, t, gaps)
-    pf = forces(members, dict(zip(names, [F1, F2, F34[0], F34[1]])))
+    pf = forces(members, dict(zip(names, [F1, F2, F34[0], F34[1]], strict=True)))
     st = solve_stack(pin, pf)
     assert_allclose(st.end_couple, 0.0, atol=1e-9 * 1e5)
     assert_allclose(st.imbalance, 0.0, atol=1e-6)
