@@ -128,11 +128,11 @@ def share_note(pin: Pin, st: StackResult, part: Part) -> str:
     names = [st.parts[i] for i in part.plates]
     sh = [st.share[i] for i in part.plates]
     tot = sum(sh)
+    split = ", ".join(f"{n} {s / tot:.0%}" for n, s in zip(names, sh, strict=True))
     return (f"{pin.name} {part.label}: main plate and cheek plates checked together on their combined "
             f"thickness {sum(pin.stack[i].thickness for i in part.plates) * 1e3:g} mm (the lowest strength and "
-            f"the smallest edge distances of them); they take " + ", ".join(
-                f"{n} {s / tot:.0%}" for n, s in zip(names, sh, strict=True)) + " of the part's force; the weld or fit that "
-            "makes them act together is not checked")
+            f"the smallest edge distances of them); they take {split} of the part's force; the weld or fit "
+            "that makes them act together is not checked")
 
 
 def lateral_columns(pin: Pin, part: Part, f_vec: Array, cases: tuple[str, ...]) -> dict[str, Array] | None:

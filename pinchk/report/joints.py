@@ -133,7 +133,8 @@ def joint_text(results, units) -> list[str]:
         real = np.nanmax(sw.case_util) if sw.case_util.size else float("nan")
         rows.append((sw.pin, sw.part, fmt(convert(sw.force, "force", units)),
                      "along the force" if sw.axis_deg is None else f"{sw.axis_deg:.1f}", f"{u:.3f}", f"{a:.0f}", k,
-                     ", ".join(f"{cs} {ang:.0f}" for cs, ang in zip(sw.cases, sw.case_angle_deg, strict=True)), f"{real:.3f}"))
+                     ", ".join(f"{cs} {ang:.0f}" for cs, ang in zip(sw.cases, sw.case_angle_deg, strict=True)),
+                     f"{real:.3f}"))
     if rows:
         out.append("Load-angle sweep: each lug's force turned through 360° at its largest magnitude "
                    "(angles in the frame, from +x)")
