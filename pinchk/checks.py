@@ -218,6 +218,9 @@ def run_checks(job: Job, sol: FrameSolution) -> Results:
     if dropped[0]:
         notes.append(f"{dropped[0]} edge-distance rows left out: the force points into the body of the plate "
                      "(through its base), so no free edge limits that mode")
+    turning = [n for n in stacks if job.pins[n].rotates]
+    if turning:
+        notes.append(joint.rotating_note(job.method.name, turning))
     for n in stacks:
         if job.pins[n].wear > 0:
             notes.append(f"{n}: holes taken {job.pins[n].wear * 1e3:g} mm larger for wear in every check")

@@ -632,6 +632,12 @@ def _pins_stack(r: _Reader, pt: dict, frame: dict, links, supports, loads, own, 
                           "every member at a checked pin needs its plate")
             if len(stack) < 2:
                 r.bad(where, "plate", "a stack needs at least two plates")
+            for key in {(pl.member, pl.group) for pl in stack if pl.group is not None}:
+                ix = [i for i, pl in enumerate(stack) if (pl.member, pl.group) == key]
+                if ix != list(range(ix[0], ix[-1] + 1)):
+                    r.bad(where, "plate", f"the plates of member {key[0]}, group '{key[1]}' (plates "
+                          f"{', '.join(str(i + 1) for i in ix)}) are not next to each other in the stack; a main "
+                          "plate and its cheek plates sit side by side")
         pin_model = r.text_field(where, t, "pin_model", choices=["uniform", "point"], default="uniform")
         wear = r.qty(where, t, "wear", "length", required=False, nonneg=True) or 0.0
         retainer = r.qty(where, t, "retainer", "force", required=False, positive=True)

@@ -164,3 +164,21 @@ def lateral_columns(pin: Pin, part: Part, f_vec: Array, cases: tuple[str, ...]) 
     return {"H": H, "N": N, "V": V, "h": np.full(n, h), "b": np.full(n, b), "t": np.full(n, t),
             "fy": np.full(n, min(pin.stack[i].material.fy for i in part.plates)),
             "fu": np.full(n, min(pin.stack[i].material.fu for i in part.plates))}
+
+
+#: What a design method does for a joint that turns under load (a note in the results).
+ROTATING = {
+    "EN 1993-1-8": "pinchk applies no separate bearing limit from EN 1993-1-8 §3.13 to a pin that turns "
+                   "under load (Table 3.10 has none); the method's limits for pins in service are those of a "
+                   "replaceable pin (Table 3.10 serviceability bearing and bending, contact stress eqs "
+                   "(3.14)-(3.16)): consider replaceable = true",
+    "AISC 360-16": "AISC 360-16 §D5.2: the hole may be at most 1/32 in (1 mm) over the pin where the pin "
+                   "turns under load, checked with any wear allowance; §J7 gives no separate bearing limit",
+}
+
+
+def rotating_note(method: str, pins: list[str]) -> str:
+    """The note for the pins marked as turning under load."""
+    rule = ROTATING.get(method, f"{method}: its rules for pins turning under load apply where it has them "
+                                "(the rows say which)")
+    return f"pins turning under load ({', '.join(pins)}): {rule}"

@@ -41,7 +41,7 @@ def rotate_job(job, phi):
     return replace(job, bodies=bodies, pins=pins, links=links, supports=sups, loads=loads)
 
 
-@pytest.mark.parametrize("example", ["a_frame_gantry.toml", "boom_head_joint.toml"])
+@pytest.mark.parametrize("example", ["a_frame_gantry.toml", "boom_head_joint.toml", "jib_bracket_aisc.toml"])
 @pytest.mark.parametrize("phi_deg", [37.0, 180.0, -101.5])
 def test_rotating_everything_changes_no_utilization(example, phi_deg):
     job = load_job(EXAMPLES / example)
@@ -282,3 +282,39 @@ def test_json_carries_the_joint_views():
     assert len(st) == 3 and len(st[0]["planes"]) == 6
     assert {g["case"] for g in j["governing_plate_check"]} == {"reach_out", "slew_stop", "jib_raised"}
     assert j["load_angle_sweep"] and len(j["load_angle_sweep"][0]["angle_deg"]) == 72
+
+
+def test_aisc_lateral_base_bending():
+    r = run(job_of(method="AISC 360-16", plate_extra='lateral = 0.05\nbase = 150'))
+    (i,) = rows(r, "base weak-axis bending")
+    # AISC 360-16 §F11.1: Mn = Fy Z ≤ 1.6 Fy S; for a b × t bar about its weak axis Z = b t²/4 and
+    # 1.6 S = 1.6 b t²/6 > Z, so Mn = Fy b t²/4; ASD with Ω = 1.67 (§F1)
+    assert r.columns["capacity"][i] == pytest.approx(FY_20 * 0.120 * 0.020**2 / 4 / 1.67, rel=1e-12)
+    assert r.columns["demand"][i] == pytest.approx(0.05 * 100e3 * 0.150, rel=1e-12)
+
+
+def test_cheek_group_must_sit_together():
+    split = '''group = "main"
+[[pin.P.plate]]
+member = "load"
+thickness = 5
+gap = 1
+[[pin.P.plate]]
+member = "arm"
+thickness = 10
+material = "S355"
+width = 100
+end = 50
+group = "main"
+'''
+    with pytest.raises(InputError, match="not next to each other"):
+        job_of(plate_extra=split)
+
+
+def test_sweep_plot_draws():
+    pytest.importorskip("matplotlib")
+    from pinchk.report.plot import sweep_figure
+
+    r = run(load_job(EXAMPLES / "boom_head_joint.toml"))
+    fig = sweep_figure(r.sweeps[0])
+    assert len(fig.axes[0].lines) == len(r.sweeps[0].checks) + 2

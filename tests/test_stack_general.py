@@ -13,6 +13,8 @@ import math
 
 import numpy as np
 import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
 from numpy.testing import assert_allclose
 
 from pinchk.frame import PinForces
@@ -143,3 +145,23 @@ def test_causes_name_the_plates():
                         forces(["fork", "eye"], {"eye": (1e5, 0.0), "fork": (-1e5, 0.0)}))
     assert given.share_note == "load share as given"
     assert_allclose(given.plate_force[0, [0, 2], 0], [-0.7e5, -0.3e5], rtol=1e-12)
+
+
+@settings(max_examples=40, deadline=None)
+@given(st_n=st.integers(2, 6), seed=st.integers(0, 2**31 - 1))
+def test_point_model_never_below_uniform(st_n, seed):
+    # inside each plate the uniform-bearing moment is a quadratic Bézier curve whose control points are
+    # the moments at the plate's faces and the point-load moment at its centre (the tangents at the faces
+    # meet there), so it stays in their convex hull and its |M| never exceeds the point model's
+    # (a property of Bézier curves; any stack and any forces in equilibrium)
+    rng = np.random.default_rng(seed)
+    members = [f"m{i}" for i in range(st_n)]
+    f = rng.normal(size=(st_n, 2)) * 1e5
+    f[-1] = -f[:-1].sum(axis=0)
+    t = rng.uniform(0.005, 0.05, st_n)
+    gaps = np.concatenate([[0.0], rng.uniform(0.0, 0.01, st_n - 1)])
+    pf = forces(members, {m: tuple(fi) for m, fi in zip(members, f, strict=True)})
+    un = solve_stack(make_pin(members, t, gaps), pf)
+    pt = solve_stack(make_pin(members, t, gaps, model="point"), pf)
+    assert pt.moment[0] >= un.moment[0] * (1 - 1e-12)
+    assert_allclose(pt.plane_shear, un.plane_shear, rtol=1e-12)

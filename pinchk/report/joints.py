@@ -40,9 +40,21 @@ def stack_dicts(results, units) -> list[dict]:
                 "moment_at": convert(float(st.moment_at[j]), "length", units),
                 "moment_cause": st.moment_cause(j),
                 "share": {p: float(s) for p, s in zip(st.parts, st.share, strict=True)},
+                "moment_diagram": _diagram(st, j, units),
                 "share_note": st.share_note,
             })
     return out
+
+
+def _diagram(st, j: int, units, per_plate: int = 4) -> dict:
+    """Moment along the pin for a plot: at every plate's faces and ``per_plate`` points inside it."""
+    z = np.unique(np.concatenate([np.linspace(z0, z0 + t, per_plate + 2)
+                                  for z0, t in zip(st.z0, st.thickness, strict=True)]))
+    M = st.moment_along(z)[j]
+    return {"z": [convert(float(x), "length", units) for x in z],
+            "mx": [convert(float(x), "moment", units) for x in M[:, 0]],
+            "my": [convert(float(x), "moment", units) for x in M[:, 1]],
+            "moment": [convert(float(x), "moment", units) for x in np.linalg.norm(M, axis=1)]}
 
 
 def governing_plate_by_case(results) -> list[int]:
