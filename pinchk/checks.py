@@ -2,7 +2,7 @@
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field, replace
+from dataclasses import dataclass, field
 
 import numpy as np
 import numpy.typing as npt
@@ -13,6 +13,7 @@ from .methods import METHODS, Check, factors_for, make_check
 from .methods.lug_base import BASE_CHECKS
 from .model import Job
 from .stack import StackResult, solve_stack
+from .sweep import lug_sweeps
 
 COLUMNS = ("pin", "part", "check", "case", "demand", "capacity", "kind", "utilization", "status", "clause",
            "formula", "factors", "note")
@@ -207,46 +208,11 @@ def run_checks(job: Job, sol: FrameSolution) -> Results:
     notes = [f"{n}: {st.share_note}" for n, st in stacks.items()
              if len({p.member for p in job.pins[n].stack}) < len(job.pins[n].stack)]
     notes += group_notes
-    checked = [p for n in stacks for p in job.pins[n].stack if p.checked]
-    if any(p.axis is None for p in checked):
-        notes.append("a plate without a lug axis is checked with its axis taken along the force of each case "
-                     "(end distance along the force, width across it)")
-    if any(p.axis is not None for p in checked):
-        notes.append("a plate with a lug axis is checked with the geometry of its outline along the actual "
-                     "force of each case: material beyond the hole along the force, the net section across it "
-                     "through the hole centre")
-    if dropped[0]:
-        notes.append(f"{dropped[0]} edge-distance rows left out: the force points into the body of the plate "
-                     "(through its base), so no free edge limits that mode")
-    turning = [n for n in stacks if job.pins[n].rotates]
-    if turning:
-        notes.append(joint.rotating_note(job.method.name, turning))
-    for n in stacks:
-        if job.pins[n].wear > 0:
-            notes.append(f"{n}: holes taken {job.pins[n].wear * 1e3:g} mm larger for wear in every check")
-    models = {st.model for st in stacks.values()}
-    if "uniform" in models:
-        notes.append("pin moment from uniform bearing over each plate's thickness (EN 1993-1-8 Fig. 3.11 "
-                     "model); an unsymmetric stack's net couple is held by equal end couples at its outer faces")
-    if "point" in models:
-        notes.append("pins with pin_model = \"point\": each plate's force as a point load at its centre "
-                     "(conservative against uniform bearing)")
-    if bush_lab:
-        notes.append("bushings: the pin bears on the bushing's bore (its own material); the plate behind is "
-                     "checked with the bushing's outside diameter as its pin, fitted without clearance")
-    if base_lab:
-        notes.append("lateral loads act at the hole centre, out of the frame's plane; the lug's base section "
-                     "is checked for weak-axis bending with the in-plane force; the pin's retainer takes their "
-                     "sum (see pin_axial)")
-    if no_base:
-        notes.append(f"lateral loads given but {job.method.name} has no base-section check here: NOT checked "
-                     f"for {', '.join(no_base)}")
+    notes += joint.notes(job, stacks, dropped[0], bool(bush_lab), bool(base_lab), no_base)
     if any(job.pins[n].replaceable for n in stacks) and not has_sls:
         notes.append("replaceable pins: no SLS case is given, so the serviceability checks use the ultimate "
                      "case forces (conservative)")
     unchecked = tuple(n for n, p in job.pins.items() if not p.checked)
-    res = Results(job, sol, stacks, mod.NAME, mod.EDITION, variant, fac, columns, tuple(notes), unchecked,
-                  geometry, pin_axial)
-    from .sweep import load_angle_sweep
-
-    return replace(res, sweeps=tuple(load_angle_sweep(res)))
+    sweeps = tuple(lug_sweeps(job, stacks, fac, variant, cases))
+    return Results(job, sol, stacks, mod.NAME, mod.EDITION, variant, fac, columns, tuple(notes), unchecked,
+                   geometry, pin_axial, sweeps)

@@ -182,3 +182,42 @@ def rotating_note(method: str, pins: list[str]) -> str:
     rule = ROTATING.get(method, f"{method}: its rules for pins turning under load apply where it has them "
                                 "(the rows say which)")
     return f"pins turning under load ({', '.join(pins)}): {rule}"
+
+
+def notes(job, stacks, dropped: int, bushings: bool, bases: bool, no_base: list[str]) -> list[str]:
+    """The assumptions the joint checks rest on, for the results' notes."""
+    out = []
+    checked = [p for n in stacks for p in job.pins[n].stack if p.checked]
+    if any(p.axis is None for p in checked):
+        out.append("a plate without a lug axis is checked with its axis taken along the force of each case "
+                   "(end distance along the force, width across it)")
+    if any(p.axis is not None for p in checked):
+        out.append("a plate with a lug axis is checked with the geometry of its outline along the actual "
+                   "force of each case: material beyond the hole along the force, the net section across it "
+                   "through the hole centre")
+    if dropped:
+        out.append(f"{dropped} rows left out where the outline sets no limit: along the force (or across it) "
+                   "the plate runs on into its body through its base, with no free edge")
+    turning = [n for n in stacks if job.pins[n].rotates]
+    if turning:
+        out.append(rotating_note(job.method.name, turning))
+    out += [f"{n}: holes taken {job.pins[n].wear * 1e3:g} mm larger for wear in every check"
+            for n in stacks if job.pins[n].wear > 0]
+    models = {st.model for st in stacks.values()}
+    if "uniform" in models:
+        out.append("pin moment from uniform bearing over each plate's thickness (EN 1993-1-8 Fig. 3.11 "
+                   "model); an unsymmetric stack's net couple is held by equal end couples at its outer faces")
+    if "point" in models:
+        out.append("pins with pin_model = \"point\": each plate's force as a point load at its centre "
+                   "(conservative against uniform bearing)")
+    if bushings:
+        out.append("bushings: the pin bears on the bushing's bore (its own material); the plate behind is "
+                   "checked with the bushing's outside diameter as its pin, fitted without clearance")
+    if bases:
+        out.append("lateral loads act at the hole centre, out of the frame's plane; the lug's base section "
+                   "is checked for weak-axis bending with the in-plane force; the pin's retainer takes their "
+                   "sum (see pin_axial)")
+    if no_base:
+        out.append(f"lateral loads given but {job.method.name} has no base-section check here: NOT checked "
+                   f"for {', '.join(no_base)}")
+    return out

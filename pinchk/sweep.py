@@ -67,13 +67,17 @@ def _utils(mod, Q, fac, variant) -> tuple[list[str], Array]:
 
 def load_angle_sweep(results, step_deg: float = STEP_DEG) -> list[LugSweep]:
     """The sweep of every lug plate of ``results`` (bushings and unchecked plates left out)."""
-    job = results.job
+    return lug_sweeps(results.job, results.stacks, results.factors, results.variant, results.solution.cases,
+                      step_deg)
+
+
+def lug_sweeps(job, stacks, fac, variant, cases, step_deg: float = STEP_DEG) -> list[LugSweep]:
+    """The sweep of every lug plate of ``job`` with its solved ``stacks`` and the method's factors."""
     mod = METHODS[job.method.name]
-    fac, variant = results.factors, results.variant
     ang = np.arange(0.0, 360.0, step_deg)
     dirs = np.column_stack([np.cos(np.radians(ang)), np.sin(np.radians(ang))])
     out: list[LugSweep] = []
-    for name, st in results.stacks.items():
+    for name, st in stacks.items():
         pin = job.pins[name]
         for part in joint.parts_of(pin):
             if part.kind != "plate":
@@ -92,6 +96,6 @@ def load_angle_sweep(results, step_deg: float = STEP_DEG) -> list[LugSweep]:
                                for k in names])
             ax = pin.stack[part.plates[0]].axis
             axis_deg = None if ax is None else float(np.degrees(np.arctan2(ax[1], ax[0])) % 360.0)
-            out.append(LugSweep(name, part.label, F, axis_deg, ang, tuple(names), u, results.solution.cases,
+            out.append(LugSweep(name, part.label, F, axis_deg, ang, tuple(names), u, cases,
                                 cdeg, mag, uc))
     return out
