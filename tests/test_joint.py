@@ -318,3 +318,31 @@ def test_sweep_plot_draws():
     r = run(load_job(EXAMPLES / "boom_head_joint.toml"))
     fig = sweep_figure(r.sweeps[0])
     assert len(fig.axes[0].lines) == len(r.sweeps[0].checks) + 2
+
+
+@pytest.mark.parametrize("extra,match", [
+    ('axis = [0, 0]', "not both zero"),
+    ('axis = "30 kN"', "angle"),
+    ('arc_centre = [-5, 0]\nradius = 70', "not end"),
+    ('bushing_od = 40\nbushing_material = "S355"', "must exceed its bore"),
+    ('bushing_od = 50', "needs its material"),
+    ('base_width = 100', "give lateral too"),
+    ('lateral = 0.05\nlateral_force = { pull = "1 kN" }\nbase = 100', "not both"),
+    ('axs = [1, 0]', "did you mean 'axis'"),
+])
+def test_joint_field_errors_name_the_field(extra, match):
+    with pytest.raises(InputError, match=match):
+        job_of(plate_extra=extra)
+
+
+def test_axis_as_an_angle_and_offset_arc():
+    job = job_of(plate_extra='axis = "90 deg"')
+    assert_allclose(job.pins["P"].stack[1].axis, (0.0, 1.0), atol=1e-15)
+    text = BASE.format(method="EN 1993-1-8", fx="100 kN", fy="0 kN", pin_extra="",
+                       plate_extra='arc_centre = [-10, 0]\nradius = 70').replace("end = 60\n", "")
+    import tomllib
+
+    r = run(parse_job(tomllib.loads(text), "t.toml", text))
+    (i,) = rows(r, "end distance (type A)")
+    # the end arc of R = 70 about a point 10 mm behind the hole: 60 mm ahead of the hole centre, less 20.5
+    assert r.columns["capacity"][i] == pytest.approx(0.060 - 0.0205, rel=1e-12)

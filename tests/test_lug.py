@@ -106,3 +106,32 @@ def test_polygon_padeye():
 def test_outline_kind_is_checked():
     with pytest.raises(ValueError, match="unknown outline"):
         Outline("oval", width=1.0, end=1.0)
+
+
+def test_convex_polygon_reach_against_scipy_hull():
+    # independent reference: scipy.spatial.ConvexHull gives the hull as half-planes n·x + h <= 0; from the
+    # hole centre (origin, inside) a ray along u leaves it at t = min over n·u > 0 of (-h / n·u)
+    from scipy.spatial import ConvexHull
+
+    rng = np.random.default_rng(7)
+    for _ in range(20):
+        pts = rng.normal(size=(12, 2)) * 0.1 + rng.normal(size=2) * 0.01
+        hull = ConvexHull(pts)
+        eq = hull.equations  # rows (nx, ny, h)
+        if not np.all(eq[:, 2] < -1e-3):  # the origin must lie inside, clear of the edges
+            continue
+        verts = pts[hull.vertices]  # counter-clockwise corners
+        o = Outline("polygon", vertices=tuple(map(tuple, verts)))
+        th = np.linspace(0, 2 * np.pi, 97, endpoint=False)
+        u = np.column_stack([np.cos(th), np.sin(th)])
+        nu = u @ eq[:, :2].T
+        with np.errstate(divide="ignore"):
+            t_ref = np.where(nu > 0, -eq[None, :, 2] / nu, np.inf).min(axis=1)
+        # which edge each ray leaves through: the base is the closing edge, last corner to first
+        hit = u * t_ref[:, None]
+        a, b = verts[-1], verts[0]
+        e = b - a
+        on_base = np.abs((hit[:, 0] - a[0]) * e[1] - (hit[:, 1] - a[1]) * e[0]) / np.hypot(*e) < 1e-9
+        got = o.reach(u)
+        assert_allclose(got[~on_base], t_ref[~on_base], rtol=1e-9)
+        assert np.isinf(got[on_base]).all()

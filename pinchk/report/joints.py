@@ -111,6 +111,12 @@ def joint_dict(results, units) -> dict:
     }
 
 
+def _plates_of(results, pin: str, part: str) -> tuple[int, ...]:
+    from ..joint import parts_of
+
+    return next(p.plates for p in parts_of(results.job.pins[pin]) if p.label == part)
+
+
 def joint_text(results, units) -> list[str]:
     """Lines of the terminal view: stacks, governing plate check per case, sweeps."""
     from tabulate import tabulate
@@ -131,6 +137,19 @@ def joint_text(results, units) -> list[str]:
         out.append(f"  largest shear ({results.solution.cases[int(np.argmax(st.shear))]}): "
                    f"{st.shear_cause(int(np.argmax(st.shear)))}")
         out.append(f"  largest moment ({results.solution.cases[j]}): {st.moment_cause(j)}")
+        out.append("")
+    rows = []
+    for (pin, part), g in results.geometry.items():
+        if all(results.job.pins[pin].stack[i].axis is None for i in _plates_of(results, pin, part)):
+            continue
+        for j, case in enumerate(results.solution.cases):
+            rows.append((pin, part, case, f"{math.degrees(g['angle'][j]):.1f}",
+                         *(fmt(convert(g[k][j], "length", units)) for k in ("a", "c_pos", "c_neg"))))
+    if rows:
+        out.append("Lug geometry along the force of each case (plates with an axis; inf: the plate runs on into "
+                   "its body)")
+        out.append(tabulate(rows, headers=["pin", "part", "case", "force to axis [deg]", f"a [{lu}]",
+                                           f"c left [{lu}]", f"c right [{lu}]"], disable_numparse=True))
         out.append("")
     c = results.columns
     rows = [(c["pin"][i], c["case"][i], c["part"][i], c["check"][i], f"{c['utilization'][i]:.3f}", c["status"][i])
