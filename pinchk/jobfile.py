@@ -638,6 +638,9 @@ def _pins_stack(r: _Reader, pt: dict, frame: dict, links, supports, loads, own, 
                     r.bad(where, "plate", f"the plates of member {key[0]}, group '{key[1]}' (plates "
                           f"{', '.join(str(i + 1) for i in ix)}) are not next to each other in the stack; a main "
                           "plate and its cheek plates sit side by side")
+                if sum(stack[i].lateral is not None for i in ix) > 1:
+                    r.bad(where, "plate", f"more than one plate of member {key[0]}, group '{key[1]}' has a lateral "
+                          "load; the group is checked as one part: give its lateral load on one of them")
         pin_model = r.text_field(where, t, "pin_model", choices=["uniform", "point"], default="uniform")
         wear = r.qty(where, t, "wear", "length", required=False, nonneg=True) or 0.0
         retainer = r.qty(where, t, "retainer", "force", required=False, positive=True)

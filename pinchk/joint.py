@@ -142,9 +142,9 @@ def lateral_columns(pin: Pin, part: Part, f_vec: Array, cases: tuple[str, ...]) 
     positive [N]; V: in-plane force across it [N]; h: hole centre to the base section [m]; b, t: the
     base section's width and thickness [m]; fy, fu [Pa].
     """
-    p = pin.stack[part.plates[0]]
-    if part.kind != "plate" or p.lateral is None:
-        return None
+    p = next((pin.stack[i] for i in part.plates if pin.stack[i].lateral is not None), None)
+    if part.kind != "plate" or p is None:
+        return None  # (a group takes the lateral load and base section of the plate that has them)
     lat = p.lateral
     F = np.linalg.norm(f_vec, axis=-1)
     if lat.fraction is not None:
