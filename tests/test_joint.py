@@ -6,6 +6,7 @@ EN 1993-1-1:2005 eq (6.13), AISC 360-16 §D5.2) worked by hand in the test, or f
 """
 
 import math
+import tomllib
 from dataclasses import replace
 from pathlib import Path
 
@@ -101,10 +102,11 @@ gap = 2
 """
 
 
-def job_of(method="EN 1993-1-8", fx="100 kN", fy="0 kN", pin_extra="", plate_extra=""):
-    import tomllib
-
-    text = BASE.format(method=method, fx=fx, fy=fy, pin_extra=pin_extra, plate_extra=plate_extra)
+def job_of(method="EN 1993-1-8", fx="100 kN", fy="0 kN", pin_extra="", plate_extra="", head="", drop=()):
+    """The test job with extra pin and plate fields, ``head`` text before it, the ``drop`` lines removed."""
+    text = head + "\n" + BASE.format(method=method, fx=fx, fy=fy, pin_extra=pin_extra, plate_extra=plate_extra)
+    for line in drop:
+        text = text.replace(line + "\n", "", 1)
     return parse_job(tomllib.loads(text), "test.toml", text)
 
 
@@ -139,7 +141,7 @@ group = "main"
 def test_bushing_has_its_own_material_and_the_plate_bears_on_its_outside():
     bush = 'hole = 41\nbushing_od = 56\nbushing_material = "bronze"'
     extra = '[material.bronze]\nfy = "240 MPa"\nfu = "400 MPa"\nE = "110 GPa"\nsource = "invented for the test"'
-    res = run(_with_material(bush, extra))
+    res = run(job_of(plate_extra=bush, head=extra))
     (b,) = rows(res, "bearing", "arm bushing")
     (p,) = rows(res, "bearing", "arm")
     # EN 1993-1-8 Table 3.10, fy the lower of pin (S355) and bushing (240 MPa): on the bore, d = 40 mm
@@ -148,14 +150,6 @@ def test_bushing_has_its_own_material_and_the_plate_bears_on_its_outside():
     assert res.columns["capacity"][p] == pytest.approx(1.5 * 0.020 * 0.056 * 240e6, rel=1e-12)
     # the bushing has no end distance of its own
     assert not rows(res, "end distance (type A)", "arm bushing")
-
-
-def _with_material(plate_extra, material):
-    import tomllib
-
-    text = BASE.format(method="EN 1993-1-8", fx="100 kN", fy="0 kN", pin_extra="", plate_extra=plate_extra)
-    text = material + "\n" + text
-    return parse_job(tomllib.loads(text), "test.toml", text)
 
 
 def test_wear_widens_every_clearance():
@@ -250,24 +244,18 @@ def test_sweep_marks_the_cases_on_its_curve():
 
 
 def test_polygon_and_offset_arc_inputs():
-    poly = 'shape = "polygon"\naxis = [1, 0]\noutline = [[-80, -60], [60, -40], [60, 40], [-80, 60]]'
-    r = run(_poly(poly))
+    no_wh = ("width = 120", "end = 60")
+    corners = 'outline = [[-80, -60], [60, -40], [60, 40], [-80, 60]]'
+    r = run(job_of(drop=no_wh, plate_extra=f'shape = "polygon"\naxis = [1, 0]\n{corners}'))
     (i,) = rows(r, "end distance (type A)")
     assert r.columns["capacity"][i] == pytest.approx(0.060 - 0.0205, rel=1e-12)
     with pytest.raises(InputError, match="needs its axis"):
-        _poly('shape = "polygon"\noutline = [[-80, -60], [60, -40], [60, 40], [-80, 60]]')
+        job_of(drop=no_wh, plate_extra=f'shape = "polygon"\n{corners}')
     with pytest.raises(InputError, match="does not fit"):
-        _poly('shape = "polygon"\naxis = [1, 0]\noutline = [[-80, -60], [15, -40], [15, 40], [-80, 60]]')
+        job_of(drop=no_wh, plate_extra='shape = "polygon"\naxis = [1, 0]\n'
+               'outline = [[-80, -60], [15, -40], [15, 40], [-80, 60]]')
     arc = job_of(plate_extra="").pins["P"]
     assert arc.stack[1].outline is None  # no outline field: the default round end about the hole centre
-
-
-def _poly(extra):
-    import tomllib
-
-    text = BASE.format(method="EN 1993-1-8", fx="100 kN", fy="0 kN", pin_extra="", plate_extra=extra)
-    text = text.replace("width = 120\nend = 60\n", "")
-    return parse_job(tomllib.loads(text), "test.toml", text)
 
 
 def test_json_carries_the_joint_views():
@@ -338,11 +326,7 @@ def test_joint_field_errors_name_the_field(extra, match):
 def test_axis_as_an_angle_and_offset_arc():
     job = job_of(plate_extra='axis = "90 deg"')
     assert_allclose(job.pins["P"].stack[1].axis, (0.0, 1.0), atol=1e-15)
-    text = BASE.format(method="EN 1993-1-8", fx="100 kN", fy="0 kN", pin_extra="",
-                       plate_extra='arc_centre = [-10, 0]\nradius = 70').replace("end = 60\n", "")
-    import tomllib
-
-    r = run(parse_job(tomllib.loads(text), "t.toml", text))
+    r = run(job_of(plate_extra='arc_centre = [-10, 0]\nradius = 70', drop=("end = 60",)))
     (i,) = rows(r, "end distance (type A)")
     # the end arc of R = 70 about a point 10 mm behind the hole: 60 mm ahead of the hole centre, less 20.5
     assert r.columns["capacity"][i] == pytest.approx(0.060 - 0.0205, rel=1e-12)
