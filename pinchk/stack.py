@@ -43,15 +43,15 @@ class StackResult:
     moment_at: npt.NDArray[np.float64]  # (n_case,) where along the pin [m from the first face]
     moment_plate: npt.NDArray[np.intp]  # (n_case,) plate in which it occurs (-1: in a gap)
     imbalance: npt.NDArray[np.float64]  # (n_case,) |sum of plate forces| (0 for a pin in equilibrium)
-    model: str = "uniform"  # "uniform" bearing over each plate, or "point" loads at plate centres
-    parts: tuple[str, ...] = ()  # name of each plate, in stack order
-    share: npt.NDArray[np.float64] | None = None  # (n_plate,) share of its member's force
-    z0: npt.NDArray[np.float64] | None = None  # (n_plate,) first face of each plate
-    thickness: npt.NDArray[np.float64] | None = None  # (n_plate,)
-    plane_shear_vec: npt.NDArray[np.float64] | None = None  # (n_case, n_plane, 2): V at each plane
-    plane_z: npt.NDArray[np.float64] | None = None  # (n_plane,) middle of the gap of each plane
-    moment_vec: npt.NDArray[np.float64] | None = None  # (n_case, 2): M at the governing section
-    end_couple: npt.NDArray[np.float64] | None = None  # (n_case, 2): net couple held at the outer faces
+    model: str  # "uniform" bearing over each plate, or "point" loads at plate centres
+    parts: tuple[str, ...]  # name of each plate, in stack order
+    share: npt.NDArray[np.float64]  # (n_plate,) share of its member's force
+    z0: npt.NDArray[np.float64]  # (n_plate,) first face of each plate
+    thickness: npt.NDArray[np.float64]  # (n_plate,)
+    plane_shear_vec: npt.NDArray[np.float64]  # (n_case, n_plane, 2): V at each plane
+    plane_z: npt.NDArray[np.float64]  # (n_plane,) middle of the gap of each plane
+    moment_vec: npt.NDArray[np.float64]  # (n_case, 2): M at the governing section
+    end_couple: npt.NDArray[np.float64]  # (n_case, 2): net couple held at the outer faces
 
     @property
     def length(self) -> float:
