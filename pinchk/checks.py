@@ -7,7 +7,8 @@ from dataclasses import dataclass, field
 import numpy as np
 import numpy.typing as npt
 
-from . import joint
+from . import bolts, joint
+from .combine import row_factors
 from .frame import FrameSolution
 from .methods import METHODS, Check, factors_for, make_check
 from .methods.lug_base import BASE_CHECKS
@@ -37,6 +38,8 @@ class Results:
     columns: dict[str, object]
     assumptions: tuple[str, ...] = field(default_factory=tuple)
     unchecked: tuple[str, ...] = field(default_factory=tuple)
+    warnings: tuple[str, ...] = field(default_factory=tuple)
+    case_solution: FrameSolution | None = None  # the forces per load case, where combinations were checked
     #: (pin, part) -> geometry along the force of each case: angle [rad], a, c_pos, c_neg [m] (n_case,)
     geometry: dict[tuple[str, str], dict[str, npt.NDArray[np.float64]]] = field(default_factory=dict)
     #: pin -> axial force its retainer takes in each case [N] (lugs with a lateral load), (n_case,)
@@ -85,10 +88,12 @@ def run_checks(job: Job, sol: FrameSolution) -> Results:
     ser_case = ~uls_case if has_sls else uls_case
 
     stacks: dict[str, StackResult] = {}
-    P = {k: [] for k in ("d", "fup", "fyp", "V", "M", "uls", "ser")}
-    Q: dict[str, list] = {}  # plate parts
+    P = {k: [] for k in ("d", "fup", "fyp", "V", "M", "uls", "ser", "bolt", "grade", "As", "V_shank", "V_thread",
+                         "secured", "rot", "stack_text", "shank_planes", "thread_planes")}
+    Q: dict[str, list] = {}  # plate parts (the columns of joint.columns, with the factor-stack text)
     B: dict[str, list] = {}  # bushings: only the checks that do not depend on an outline
     L: dict[str, list] = {}  # lug bases under a lateral load
+    warnings: list[str] = []
     pin_lab: list[str] = []
     plate_lab: list[tuple[str, str]] = []
     bush_lab: list[tuple[str, str]] = []
@@ -104,18 +109,37 @@ def run_checks(job: Job, sol: FrameSolution) -> Results:
         st = solve_stack(pin, sol.pins[name])
         stacks[name] = st
         ser = ser_case & pin.replaceable
+        # the factor stack (dynamic, skew, consequence) scales the forces of the rows it applies to
+        sfac, txt = row_factors(job, cases, name, {p.member for p in pin.stack})
+        bolt = pin.bolt
+        V_sh, V_th = bolts.shank_and_thread_shear(pin, st)
         P["d"].append(np.full(nc, pin.diameter))
         P["fup"].append(np.full(nc, pin.material.fu))
         P["fyp"].append(np.full(nc, pin.material.fy))
-        P["V"].append(st.shear)
-        P["M"].append(st.moment)
+        P["V"].append(st.shear * sfac)
+        P["M"].append(st.moment * sfac)
         P["uls"].append(uls_case)
         P["ser"].append(ser)
+        P["bolt"].append(np.full(nc, bolt is not None))
+        P["grade"].append(np.full(nc, bolt.grade.grade if bolt else "", dtype=object))
+        P["As"].append(np.full(nc, bolt.As if bolt else np.pi * pin.diameter**2 / 4))
+        P["V_shank"].append(V_sh * sfac)
+        P["V_thread"].append(V_th * sfac)
+        n_thread = len(bolt.thread_planes) if bolt else 0
+        P["shank_planes"].append(np.full(nc, n_thread < len(pin.stack) - 1))
+        P["thread_planes"].append(np.full(nc, n_thread > 0))
+        P["secured"].append(np.full(nc, pin.secured))
+        P["rot"].append(np.full(nc, pin.rotates))
+        P["stack_text"].append(np.array(txt, dtype=object))
         pin_lab.append(name)
+        warnings += bolts.warnings_for(pin)
         axial = np.zeros(nc)
         for part in joint.parts_of(pin):
-            f_part = part.force(st)
+            # the factor stack (dynamic, skew, consequence) scales the forces of the part's member
+            sfac_p, txt_p = row_factors(job, cases, name, {pin.stack[part.plates[0]].member})
+            f_part = part.force(st) * sfac_p[:, None]
             cols_ = joint.columns(pin, part, f_part, uls_case, ser)
+            cols_["stack_text"] = np.array(txt_p, dtype=object)
             into, labels = (Q, plate_lab) if part.kind == "plate" else (B, bush_lab)
             for key, v in cols_.items():
                 into.setdefault(key, []).append(v)
@@ -125,8 +149,9 @@ def run_checks(job: Job, sol: FrameSolution) -> Results:
                 geometry[(name, part.label)] = {k: cols_[k] for k in ("angle", "a", "c_pos", "c_neg")}
                 if note := joint.share_note(pin, st, part):
                     group_notes.append(note)
-            lat = joint.lateral_columns(pin, part, f_part, cases)
+            lat = joint.lateral_columns(pin, part, f_part, cases, job.combinations)
             if lat is not None:
+                lat["stack_text"] = cols_["stack_text"]
                 axial += lat["H"]
                 if job.method.name in BASE_CHECKS:
                     for key, v in lat.items():
@@ -141,7 +166,7 @@ def run_checks(job: Job, sol: FrameSolution) -> Results:
 
     dropped = [0]
 
-    def emit(checks: list[Check], labels: list[tuple[str, str]], notes: list[str] | None = None,
+    def emit(checks: list[Check], labels: list[tuple[str, str]], stack_text, notes: list[str] | None = None,
              keep=None) -> None:
         n = len(labels)
         pins_ = np.repeat([p for p, _ in labels], nc) if n else np.array([], dtype=str)
@@ -172,7 +197,8 @@ def run_checks(job: Job, sol: FrameSolution) -> Results:
             cols["status"] += ["pass" if u <= 1.0 else "FAIL" for u in util]
             cols["clause"] += [ch.clause] * k
             cols["formula"] += [ch.formula] * k
-            cols["factors"] += [ch.factors] * k
+            stack = stack_text[mask] if ch.uses_forces else [""] * k
+            cols["factors"] += [ch.factors + ("; " if ch.factors and s else "") + s for s in stack]
             if notes is None or any(w in ch.name for w in joint.OUTLINE_FREE):
                 cols["note"] += [ch.note] * k
             else:
@@ -180,23 +206,24 @@ def run_checks(job: Job, sol: FrameSolution) -> Results:
 
     if pin_lab:
         Pa = {k: np.concatenate(v) for k, v in P.items()}
-        emit(mod.pin_checks(Pa, fac, variant), [(p, "pin") for p in pin_lab])
+        emit(mod.pin_checks(Pa, fac, variant), [(p, "pin") for p in pin_lab], Pa["stack_text"])
     if plate_lab:
         Qa = {k: np.concatenate(v) for k, v in Q.items()}
-        emit(mod.plate_checks(Qa, fac, variant), plate_lab, plate_note)
+        emit(mod.plate_checks(Qa, fac, variant), plate_lab, Qa["stack_text"], plate_note)
     if bush_lab:
         Ba = {k: np.concatenate(v) for k, v in B.items()}
-        emit(mod.plate_checks(Ba, fac, variant), bush_lab, keep=lambda c: any(w in c for w in joint.OUTLINE_FREE))
+        emit(mod.plate_checks(Ba, fac, variant), bush_lab, Ba["stack_text"],
+             keep=lambda c: any(w in c for w in joint.OUTLINE_FREE))
     if base_lab:
         La = {k: np.concatenate(v) for k, v in L.items()}
-        emit(BASE_CHECKS[job.method.name](La, fac, variant), base_lab)
+        emit(BASE_CHECKS[job.method.name](La, fac, variant), base_lab, La["stack_text"])
     ret = [(n, job.pins[n].retainer) for n in pin_axial if job.pins[n].retainer is not None]
     if ret:
         emit([make_check("pin axial force (retainer)", "retainer capacity as given in the job: "
                          "axial force ≤ retainer capacity", "force",
                          np.concatenate([pin_axial[n] for n, _ in ret]), np.repeat([r for _, r in ret], nc), "",
                          None, "every lateral load on the pin's lugs taken through the pin to its retainer")],
-             [(n, "pin retainer") for n, _ in ret])
+             [(n, "pin retainer") for n, _ in ret], np.full(len(ret) * nc, "", dtype=object))
 
     columns: dict[str, object] = {}
     for k in COLUMNS:
@@ -208,11 +235,14 @@ def run_checks(job: Job, sol: FrameSolution) -> Results:
     notes = [f"{n}: {st.share_note}" for n, st in stacks.items()
              if len({p.member for p in job.pins[n].stack}) < len(job.pins[n].stack)]
     notes += group_notes
-    notes += joint.notes(job, stacks, dropped[0], bool(bush_lab), bool(base_lab), no_base)
+    notes += joint.notes(job, stacks, dropped[0], bool(bush_lab), bool(base_lab))
+    if no_base:
+        warnings.append(joint.no_base_warning(job.method.name, no_base))
     if any(job.pins[n].replaceable for n in stacks) and not has_sls:
         notes.append("replaceable pins: no SLS case is given, so the serviceability checks use the ultimate "
                      "case forces (conservative)")
     unchecked = tuple(n for n, p in job.pins.items() if not p.checked)
+    notes += [f"{n}: {pin.bolt.thread_note}" for n, pin in job.pins.items() if pin.bolt and n in stacks]
     sweeps = tuple(lug_sweeps(job, stacks, fac, variant, cases))
     return Results(job, sol, stacks, mod.NAME, mod.EDITION, variant, fac, columns, tuple(notes), unchecked,
-                   geometry, pin_axial, sweeps)
+                   tuple(warnings), None, geometry, pin_axial, sweeps)

@@ -20,7 +20,8 @@ from .units import G0, UNIT_SYSTEMS, QuantityError, check_unit, to_si
 MAX_FILE_BYTES = 4 * 1024 * 1024  # a job file is text typed by a person; anything larger is refused
 
 KEYS = {
-    "": {"job", "units", "method", "material", "body", "pin", "link", "support", "case", "load", "forces"},
+    "": {"job", "units", "method", "material", "body", "pin", "link", "support", "case", "load", "forces",
+         "combination", "lift_factors"},
     "forces": {"file", "balance_tol"},
     "job": {"title", "output_units", "number", "revision", "prepared_by", "checked_by", "date", "client"},
     "units": set(UNIT_SYSTEMS["SI"]),
@@ -28,9 +29,9 @@ KEYS = {
     "material": {"fy", "fu", "E", "source"},
     "body": {"points", "description"},
     "pin": {"joins", "at", "diameter", "hole", "material", "replaceable", "rotates", "plate", "description",
-            "pin_model", "wear", "retainer"},
+            "secured", "bolt", "thread_pitch", "thread_planes", "thread_plates", "pin_model", "wear", "retainer"},
     "plate": {"member", "thickness", "material", "width", "end", "shape", "gap", "hole", "share", "en_type",
-              "axis", "arc_centre", "radius", "outline", "base", "base_width", "group", "bushing_od",
+              "stiffened", "axis", "arc_centre", "radius", "outline", "base", "base_width", "group", "bushing_od",
               "bushing_material", "lateral", "lateral_force"},
     "link": {"ends", "kind", "description"},
     "support": {"at", "kind", "normal", "description"},
@@ -210,9 +211,15 @@ def parse_job(data: dict[str, Any], path: str = "<job>", text: str = "") -> Job:
     supports = _supports(r, data, bodies, pins_partial, required=forces is None) if not frameless else {}
     loads = _loads(r, data, bodies, pins_partial, cases, required=forces is None) if not frameless else []
     pins = _pins_stack(r, pin_tables, pins_partial, links, supports, loads, job_materials, frameless, cases)
+    from . import jobfile_lifting
+
+    combos = jobfile_lifting.combinations(r, data, cases)
+    members = set(bodies) | set(links) | {GROUND, PIN_LOAD} | {pl.member for p in pins.values() for pl in p.stack}
+    stack_factors = jobfile_lifting.stack_factors(r, data, combos, cases, pins, members)
 
     job = Job(path=path, title=title, method=method, output_units=output_units, bodies=bodies, pins=pins,
-              links=links, supports=supports, loads=tuple(loads), cases=cases, info=info, forces=forces)
+              links=links, supports=supports, loads=tuple(loads), cases=cases, info=info, forces=forces,
+              combinations=combos, stack_factors=stack_factors)
     if forces_table is not None:
         job, problems = attach(job, forces_table, pin_tables, not r.c.problems,
                                lambda table: _line_of(text, table, ""))
@@ -594,10 +601,18 @@ def _pins_stack(r: _Reader, pt: dict, frame: dict, links, supports, loads, own, 
         if d is not None and hole is not None and hole < d:
             r.bad(where, "hole", f"the hole ({t['hole']}) is smaller than the pin ({t['diameter']}); "
                   "the hole must be at least the pin diameter")
-        mat = None
-        if plates_t:
+        mat = grade = None
+        if "bolt" in t and "material" in t:
+            r.bad(where, "bolt", "give either material (a pin) or bolt (a bolt grade), not both")
+        elif "bolt" in t and d is not None:
+            from .jobfile_lifting import bolt_material
+
+            grade, mat = bolt_material(r, where, t, d)
+        elif "bolt" not in t and any(k in t for k in ("thread_pitch", "thread_planes", "thread_plates")):
+            r.bad(where, "bolt", "thread fields are for a bolt used as a pin: give bolt = \"GRADE\" too")
+        elif plates_t:
             if "material" not in t:
-                r.bad(where, "material", "missing: the pin's material (or bolt grade)")
+                r.bad(where, "material", "missing: the pin's material, or bolt = \"GRADE\" for a bolt")
             elif d is not None:
                 mat = _material(r, where, "material", t["material"], d, own)
         stack: list[Plate] = []
@@ -655,7 +670,8 @@ def _pins_stack(r: _Reader, pt: dict, frame: dict, links, supports, loads, own, 
                         r.bad(pw, k, f"'{k}' is for a checked plate; the '{PIN_LOAD}' member is not checked")
             if None in (member, th, ph) or (checked and None in (pmat, width, end)) or extra is None:
                 continue
-            stack.append(Plate(member, th, gap, share, pmat, width, end, shape, ph, en_type, **extra))
+            stack.append(Plate(member, th, gap, share, pmat, width, end, shape, ph, en_type,
+                               r.flag(pw, p, "stiffened"), **extra))
         if plates_t and len(stack) == len(plates_t):
             members = [pl.member for pl in stack]
             for m in at_pin[name] if not frameless else ():
@@ -673,11 +689,17 @@ def _pins_stack(r: _Reader, pt: dict, frame: dict, links, supports, loads, own, 
                 if sum(stack[i].lateral is not None for i in ix) > 1:
                     r.bad(where, "plate", f"more than one plate of member {key[0]}, group '{key[1]}' has a lateral "
                           "load; the group is checked as one part: give its lateral load on one of them")
+        bolt = None
+        if grade is not None and mat is not None and d is not None:
+            from .jobfile_lifting import bolt_spec
+
+            bolt = bolt_spec(r, where, t, grade, d, len(plates_t))
         pin_model = r.text_field(where, t, "pin_model", choices=["uniform", "point"], default="uniform")
         wear = r.qty(where, t, "wear", "length", required=False, nonneg=True) or 0.0
         retainer = r.qty(where, t, "retainer", "force", required=False, positive=True)
         out[name] = Pin(name, f["xy"], f["bodies"], d, mat, tuple(stack),
-                        r.flag(where, t, "replaceable"), r.flag(where, t, "rotates"), pin_model, wear, retainer)
+                        r.flag(where, t, "replaceable"), r.flag(where, t, "rotates"), bolt,
+                        r.flag(where, t, "secured"), pin_model=pin_model, wear=wear, retainer=retainer)
     return out
 
 

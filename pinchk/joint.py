@@ -83,7 +83,7 @@ def columns(pin: Pin, part: Part, f_vec: Array, uls, ser) -> dict[str, Array]:
         p = plates[0]
         m = p.bushing.material
         t, d, d0 = p.thickness, pin.diameter, p.hole + pin.wear
-        fy, fu, E, fyp = m.fy, m.fu, m.E, pin.material.fy
+        fy, fu, E, fyp, fup = m.fy, m.fu, m.E, pin.material.fy, pin.material.fu
         a = cp = cn = np.full(n, np.inf)
         angle = np.zeros(n)
         type_b = False
@@ -95,6 +95,7 @@ def columns(pin: Pin, part: Part, f_vec: Array, uls, ser) -> dict[str, Array]:
         # a bushing is the "pin" of the plate behind it, fitted without clearance
         d = min(p.bushing.outer if p.bushing else pin.diameter for p in plates)
         fyp = min(p.bushing.material.fy if p.bushing else pin.material.fy for p in plates)
+        fup = min(p.bushing.material.fu if p.bushing else pin.material.fu for p in plates)
         d0s = [p.bushing.outer if p.bushing else p.hole + pin.wear for p in plates]
         d0 = max(d0s)
         geo = [lug.along(outline_of(p), h, f_vec, p.axis) for p, h in zip(plates, d0s, strict=True)]
@@ -105,9 +106,10 @@ def columns(pin: Pin, part: Part, f_vec: Array, uls, ser) -> dict[str, Array]:
         type_b = any(p.en_type == "B" for p in plates)
     return {
         "F": np.linalg.norm(f_vec, axis=-1), "t": full(t), "d": full(d), "d0": full(d0), "fy": full(fy),
-        "fu": full(fu), "fyp": full(fyp), "E": full(E), "a_end": a + d0 / 2,
+        "fu": full(fu), "fyp": full(fyp), "fup": full(fup), "E": full(E), "a_end": a + d0 / 2,
         "width": d0 + 2 * np.minimum(cp, cn), "type_b": np.full(n, type_b), "rot": np.full(n, pin.rotates),
         "uls": np.broadcast_to(uls, (n,)).copy(), "ser": np.broadcast_to(ser, (n,)).copy(),
+        "stiffened": np.full(n, any(getattr(p, "stiffened", False) for p in plates)),
         "angle": angle, "a": a, "c_pos": cp, "c_neg": cn,
     }
 
@@ -135,8 +137,12 @@ def share_note(pin: Pin, st: StackResult, part: Part) -> str:
             "that makes them act together is not checked")
 
 
-def lateral_columns(pin: Pin, part: Part, f_vec: Array, cases: tuple[str, ...]) -> dict[str, Array] | None:
+def lateral_columns(pin: Pin, part: Part, f_vec: Array, cases: tuple[str, ...],
+                    combinations=None) -> dict[str, Array] | None:
     """Columns of the base-section check of a lug with a lateral load, or None when it has none.
+
+    A lateral force given per load case enters a combination with the case's factor (``combinations``:
+    name -> pinchk.model.Combination, where the rows are combinations).
 
     H: lateral force (out of the frame's plane) [N]; N: in-plane force along the lug axis, tension
     positive [N]; V: in-plane force across it [N]; h: hole centre to the base section [m]; b, t: the
@@ -150,7 +156,10 @@ def lateral_columns(pin: Pin, part: Part, f_vec: Array, cases: tuple[str, ...]) 
     if lat.fraction is not None:
         H = lat.fraction * F
     else:
-        H = np.array([abs(lat.per_case.get(c, 0.0)) for c in cases])
+        combos = combinations or {}
+        H = np.abs([lat.per_case[c] if c in lat.per_case else
+                    sum(k * lat.per_case.get(c0, 0.0) for c0, k in combos[c].factors.items()) if c in combos
+                    else 0.0 for c in cases])
     h, b = lug.base_section(outline_of(p))
     b = lat.base_width if lat.base_width is not None else b
     if p.axis is None:
@@ -184,7 +193,7 @@ def rotating_note(method: str, pins: list[str]) -> str:
     return f"pins turning under load ({', '.join(pins)}): {rule}"
 
 
-def notes(job, stacks, dropped: int, bushings: bool, bases: bool, no_base: list[str]) -> list[str]:
+def notes(job, stacks, dropped: int, bushings: bool, bases: bool) -> list[str]:
     """The assumptions the joint checks rest on, for the results' notes."""
     out = []
     checked = [p for n in stacks for p in job.pins[n].stack if p.checked]
@@ -217,7 +226,10 @@ def notes(job, stacks, dropped: int, bushings: bool, bases: bool, no_base: list[
         out.append("lateral loads act at the hole centre, out of the frame's plane; the lug's base section "
                    "is checked for weak-axis bending with the in-plane force; the pin's retainer takes their "
                    "sum (see pin_axial)")
-    if no_base:
-        out.append(f"lateral loads given but {job.method.name} has no base-section check here: NOT checked "
-                   f"for {', '.join(no_base)}")
     return out
+
+
+def no_base_warning(method: str, parts: list[str]) -> str:
+    """The warning for lugs with a lateral load that the method in force cannot check at their base."""
+    return (f"lateral loads given, but pinchk has no base-section check for {method}: the base of "
+            f"{', '.join(parts)} is NOT checked (check it by hand, or run the job with EN 1993-1-8 or AISC 360-16)")

@@ -13,6 +13,7 @@ import numpy as np
 import numpy.typing as npt
 
 from . import joint
+from .combine import row_factors
 from .methods import METHODS
 
 Array = npt.NDArray[np.float64]
@@ -82,7 +83,8 @@ def lug_sweeps(job, stacks, fac, variant, cases, step_deg: float = STEP_DEG) -> 
         for part in joint.parts_of(pin):
             if part.kind != "plate":
                 continue
-            f_case = part.force(st)
+            # the factor stack (dynamic, skew, consequence) scales the part's forces, as in the checks
+            f_case = part.force(st) * row_factors(job, cases, name, {pin.stack[part.plates[0]].member})[0][:, None]
             mag = np.linalg.norm(f_case, axis=-1)
             F = float(mag.max()) if len(mag) else 0.0
             if F <= 0:
