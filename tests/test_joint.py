@@ -330,3 +330,33 @@ def test_axis_as_an_angle_and_offset_arc():
     (i,) = rows(r, "end distance (type A)")
     # the end arc of R = 70 about a point 10 mm behind the hole: 60 mm ahead of the hole centre, less 20.5
     assert r.columns["capacity"][i] == pytest.approx(0.060 - 0.0205, rel=1e-12)
+
+
+def test_lateral_force_per_case_enters_combinations_with_their_factors():
+    extra = '''lateral_force = { pull = "4 kN", side = "2 kN" }
+base = 150
+[case.side]
+[[load]]
+case = "side"
+at = "P"
+force = ["0 kN", "20 kN"]
+[combination.c1]
+cases = { pull = 1.5, side = 1.0 }
+'''
+    r = run(job_of(plate_extra=extra))
+    (i,) = rows(r, "base weak-axis bending")
+    assert r.columns["case"][i] == "c1"
+    # H in c1 = 1.5 × 4 kN + 1.0 × 2 kN = 8 kN, at 150 mm from the base
+    assert r.columns["demand"][i] == pytest.approx(8e3 * 0.150, rel=1e-12)
+
+
+def test_lift_factors_scale_the_parts_their_lateral_load_and_their_sweep():
+    lat = 'lateral = "5 %"\nbase = 150\n[lift_factors]\ndynamic = 1.2'
+    r1 = run(job_of(plate_extra='lateral = "5 %"\nbase = 150'))
+    r2 = run(job_of(plate_extra=lat))
+    for check in ("bearing", "base weak-axis bending"):
+        (i,) = rows(r1, check, "arm")
+        (j,) = rows(r2, check, "arm")
+        assert r2.columns["demand"][j] == pytest.approx(1.2 * r1.columns["demand"][i], rel=1e-12)
+        assert "dynamic 1.2" in r2.columns["factors"][j]
+    assert r2.sweeps[0].force == pytest.approx(1.2 * r1.sweeps[0].force, rel=1e-12)
