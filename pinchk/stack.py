@@ -172,8 +172,10 @@ def solve_stack(pin: Pin, pf: PinForces, model: str | None = None) -> StackResul
 
     V_planes = V_in[:, 1:]  # plane k lies between plate k and k+1
     plane_shear = np.linalg.norm(V_planes, axis=-1)
-    plane = plane_shear.argmax(axis=1)
-    shear = plane_shear[np.arange(plane_shear.shape[0]), plane]
+    # the first plane of a tie (a symmetric stack has two), not whichever round-off favours
+    top = plane_shear.max(axis=1, keepdims=True)
+    plane = np.argmax(plane_shear >= top * (1 - 1e-9), axis=1)
+    shear = top[:, 0]
     plane_z = z0[1:] - np.array([p.gap for p in stack[1:]]) / 2
     return StackResult(pin.name, note, got, plane_shear, shear, plane, moment, at, plate_ix, imbalance,
                        model=model, parts=tuple(part_names(pin)), share=share, z0=z0, thickness=t,
