@@ -103,6 +103,7 @@ def run_checks(job: Job, sol: FrameSolution) -> Results:
     pin_axial: dict[str, np.ndarray] = {}
     group_notes: list[str] = []
     no_base: list[str] = []
+    fz_parts: list[str] = []  # lugs whose lateral load is the forces file's fz
     for name, pin in job.pins.items():
         if not pin.checked:
             continue
@@ -149,8 +150,15 @@ def run_checks(job: Job, sol: FrameSolution) -> Results:
                 geometry[(name, part.label)] = {k: cols_[k] for k in ("angle", "a", "c_pos", "c_neg")}
                 if note := joint.share_note(pin, st, part):
                     group_notes.append(note)
-            lat = joint.lateral_columns(pin, part, f_part, cases, job.combinations)
+            fz = None
+            pf = sol.pins[name]
+            if pf.axial is not None:  # forces along the pin, from a forces file
+                member = pin.stack[part.plates[0]].member
+                fz = pf.axial[:, pf.members.index(member)] * sum(st.share[i] for i in part.plates) * sfac_p
+            lat = joint.lateral_columns(pin, part, f_part, cases, job.combinations, fz)
             if lat is not None:
+                if all(pin.stack[i].lateral is None for i in part.plates):
+                    fz_parts.append(f"{name} {part.label}")
                 lat["stack_text"] = cols_["stack_text"]
                 axial += lat["H"]
                 if job.method.name in BASE_CHECKS:
@@ -238,6 +246,10 @@ def run_checks(job: Job, sol: FrameSolution) -> Results:
     notes += joint.notes(job, stacks, dropped[0], bool(bush_lab), bool(base_lab))
     if no_base:
         warnings.append(joint.no_base_warning(job.method.name, no_base))
+    if fz_parts:
+        notes.append(f"the forces file's forces along the pin (fz) are the lateral loads of {', '.join(fz_parts)}, "
+                     "by their share of the member's force: their base sections and the pin's retainer are checked "
+                     "for them")
     if any(job.pins[n].replaceable for n in stacks) and not has_sls:
         notes.append("replaceable pins: no SLS case is given, so the serviceability checks use the ultimate "
                      "case forces (conservative)")

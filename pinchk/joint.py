@@ -14,7 +14,7 @@ import numpy as np
 import numpy.typing as npt
 
 from . import lug
-from .model import Pin, Plate
+from .model import Lateral, Pin, Plate
 from .stack import StackResult, part_names
 
 Array = npt.NDArray[np.float64]
@@ -138,22 +138,29 @@ def share_note(pin: Pin, st: StackResult, part: Part) -> str:
 
 
 def lateral_columns(pin: Pin, part: Part, f_vec: Array, cases: tuple[str, ...],
-                    combinations=None) -> dict[str, Array] | None:
+                    combinations=None, fz: Array | None = None) -> dict[str, Array] | None:
     """Columns of the base-section check of a lug with a lateral load, or None when it has none.
 
     A lateral force given per load case enters a combination with the case's factor (``combinations``:
-    name -> pinchk.model.Combination, where the rows are combinations).
+    name -> pinchk.model.Combination, where the rows are combinations). A part given no lateral load
+    takes ``fz``, the force along the pin a forces file gives its plates (n_case,), where its outline
+    has a base section.
 
     H: lateral force (out of the frame's plane) [N]; N: in-plane force along the lug axis, tension
     positive [N]; V: in-plane force across it [N]; h: hole centre to the base section [m]; b, t: the
     base section's width and thickness [m]; fy, fu [Pa].
     """
+    if part.kind != "plate":
+        return None
+    # a group takes the lateral load and base section of the plate that has them
     p = next((pin.stack[i] for i in part.plates if pin.stack[i].lateral is not None), None)
-    if part.kind != "plate" or p is None:
-        return None  # (a group takes the lateral load and base section of the plate that has them)
-    lat = p.lateral
     F = np.linalg.norm(f_vec, axis=-1)
-    if lat.fraction is not None:
+    if p is None:
+        p = pin.stack[part.plates[0]]
+        if fz is None or not np.any(fz) or lug.base_section(outline_of(p))[0] is None:
+            return None
+        lat, H = Lateral(), np.abs(fz)
+    elif (lat := p.lateral).fraction is not None:
         H = lat.fraction * F
     else:
         combos = combinations or {}

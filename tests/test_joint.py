@@ -360,3 +360,24 @@ def test_lift_factors_scale_the_parts_their_lateral_load_and_their_sweep():
         assert r2.columns["demand"][j] == pytest.approx(1.2 * r1.columns["demand"][i], rel=1e-12)
         assert "dynamic 1.2" in r2.columns["factors"][j]
     assert r2.sweeps[0].force == pytest.approx(1.2 * r1.sweeps[0].force, rel=1e-12)
+
+
+def test_forces_file_fz_is_the_lateral_load_of_a_lug_with_a_base(tmp_path):
+    # the padeye demo's forces file gives fz = 9 kN on the padeye in case lift_skew; with a base section
+    # on its plates (a group: main plate and cheeks) the base is checked for it, and the retainer takes it
+    src = (EXAMPLES / "padeye_forces.toml").read_text()
+    tag = 'member = "padeye"'
+    text = src.replace(tag, tag + '\ngroup = "pe"\nbase = 200')  # every padeye plate: one group with a base
+    text = text.replace('file = "padeye_forces.csv"', f'file = "{EXAMPLES / "padeye_forces.csv"}"')
+    text = text.replace('material = "42CrMo4+QT"', 'material = "42CrMo4+QT"\nretainer = "20 kN"', 1)
+    job_path = tmp_path / "padeye.toml"
+    job_path.write_text(text)
+    r = run(load_job(job_path))
+    ix = rows(r, "base weak-axis bending")
+    got = {r.columns["case"][i]: r.columns["demand"][i] for i in ix}
+    assert {r.columns["part"][i] for i in ix} == {"padeye pe (3 plates)"}
+    # Mz = fz h: 9 kN at 200 mm from the base in lift_skew; fz = 0 in lift, so Mz = 0 there
+    assert got["lift_skew"] == pytest.approx(9e3 * 0.200, rel=1e-9)
+    assert got.get("lift", 0.0) == pytest.approx(0.0, abs=1e-9)
+    (j,) = [i for i in rows(r, "pin axial force (retainer)") if r.columns["case"][i] == "lift_skew"]
+    assert r.columns["demand"][j] == pytest.approx(9e3, rel=1e-9)
