@@ -109,7 +109,7 @@ def columns(pin: Pin, part: Part, f_vec: Array, uls, ser) -> dict[str, Array]:
         "fu": full(fu), "fyp": full(fyp), "fup": full(fup), "E": full(E), "a_end": a + d0 / 2,
         "width": d0 + 2 * np.minimum(cp, cn), "type_b": np.full(n, type_b), "rot": np.full(n, pin.rotates),
         "uls": np.broadcast_to(uls, (n,)).copy(), "ser": np.broadcast_to(ser, (n,)).copy(),
-        "stiffened": np.full(n, any(getattr(p, "stiffened", False) for p in plates)),
+        "stiffened": np.full(n, any(p.stiffened for p in plates)),
         "angle": angle, "a": a, "c_pos": cp, "c_neg": cn,
     }
 
