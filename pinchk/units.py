@@ -26,6 +26,9 @@ SI_UNIT = {
     "second moment of area": "m^4",  # second moment of area of a member's section (stiffness solve)
 }
 
+#: The units an angle may be written in (pint holds angles dimensionless, so they are named here).
+ANGLE_UNITS = frozenset({"deg", "degree", "degrees", "rad", "radian", "radians", "°"})
+
 #: Output unit systems: the unit printed for each kind of figure.
 UNIT_SYSTEMS = {
     "SI": {"length": "mm", "force": "kN", "stress": "MPa", "moment": "kN*m", "mass": "t", "angle": "deg"},
@@ -61,6 +64,10 @@ def _unit_factor(unit_text: str, dim: str) -> float:
             f"such as mm^2 or in**2"
         )
     q = ureg.Quantity(1.0, unit_text)
+    if dim == "angle" and unit_text.strip() not in ANGLE_UNITS:
+        # pint takes an angle as dimensionless, so "30 percent" would pass as 0.3 rad: name the unit
+        raise QuantityError(f"'{unit_text}' is not a unit of angle; write the angle in "
+                            f"{' or '.join(sorted(ANGLE_UNITS)[:4])}, for example \"30 deg\"")
     try:
         return float(q.to(SI_UNIT[dim]).magnitude)
     except pint.DimensionalityError:

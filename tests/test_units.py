@@ -195,3 +195,18 @@ def test_round_trip(x):
     for unit, dim in (("mm", "length"), ("in", "length"), ("kip", "force"), ("ksi", "stress"),
                       ("kip*in", "moment"), ("kN*m", "moment")):
         assert from_si(to_si(f"{x!r} {unit}", dim), dim, unit) == pytest.approx(x, rel=1e-13, abs=1e-300)
+
+
+def test_an_angle_must_be_in_an_angle_unit():
+    """pint takes angles as dimensionless: "30 percent" must not pass as 0.3 rad (common practice)."""
+    import math
+
+    import pytest
+
+    from pinchk.units import QuantityError, to_si
+
+    assert to_si("30 deg", "angle") == pytest.approx(math.radians(30), rel=1e-15)
+    assert to_si("0.5 rad", "angle") == 0.5
+    for bad in ("30 percent", "30", "30 dimensionless"):
+        with pytest.raises(QuantityError):
+            to_si(bad, "angle")
