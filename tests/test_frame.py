@@ -536,3 +536,17 @@ def test_large_singular_structure_is_refused(monkeypatch):
         solve(_warren(40, drop=diagonal, both_pinned=True))
     with pytest.raises(StructureError, match="mechanism"):
         solve(_warren(40, drop=diagonal))
+
+
+def test_a_roller_that_pulls_is_flagged():
+    """Overhanging beam: R_B = -P (a + b) / a by moments about A (hand statics): -10 kN × 1.5 / 1.0 = -15 kN."""
+    from pathlib import Path
+
+    import pinchk
+
+    job = pinchk.load_job(Path(__file__).parent / "data" / "roller_uplift.toml")
+    from pinchk.solve import solve
+
+    sol = solve(job)
+    assert sol.supports["b"][0, 1] == pytest.approx(-15e3, rel=1e-12)
+    assert len(sol.warnings) == 1 and "roller b pulls" in sol.warnings[0] and "-15 kN" in sol.warnings[0]
