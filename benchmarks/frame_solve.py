@@ -4,8 +4,7 @@ The frames are generated determinate Warren trusses of rigid bodies (benchmarks/
 invented scenario). pinchk's time is the whole solve: assembly, determinacy check, factorization,
 every load case, the forces at every pin, the equilibrium check of every body and pin. The bare time
 is scipy.sparse.linalg.splu of the very matrix pinchk assembles, and its solve for every case; the
-ratio is what pinchk adds. Small frames (at most frame.DENSE_SOLVE_LIMIT unknowns) are solved dense
-by pinchk, so their bare figure is the sparse solve they no longer use.
+ratio is what pinchk adds.
 """
 
 from __future__ import annotations

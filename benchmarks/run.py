@@ -52,7 +52,7 @@ def main(argv: list[str]) -> int:
     add("start-up: demo run, pint cache off", f"{s['run (unit cache off)']['median'] * 1e3:.0f} ms = {rc:.2f} x ref",
         "-", None)
     heavy = startup.heavy_imports()
-    add("start-up: pandas/matplotlib/jinja2/scipy.sparse imported by a table run",
+    add("start-up: pandas/matplotlib/jinja2 imported by a table run",
         ", ".join(sorted(heavy)) or "none", "none", not heavy)
 
     # check kernel

@@ -4,9 +4,8 @@ Every body gives three equilibrium equations in the plane (two forces and a mome
 pin is a small free body of its own, so a load can hang on the pin itself). Unknowns: the two force
 components each body receives from each pin it sits on, one tension per link or cable, and the reactions
 of the supports (pinned 2, roller 1, fixed 3). The rank of the equations tells a determinate structure
-from a mechanism or an indeterminate one; only a determinate one is solved. One factorization serves
-every load case, solved at once as a matrix of right-hand sides: dense (numpy) for a small frame, sparse
-(scipy's SuperLU) for a large one.
+from a mechanism or an indeterminate one; only a determinate one is solved. One sparse factorization
+serves every load case, solved at once as a matrix of right-hand sides.
 
 The equations are assembled as arrays, one block per kind of unknown (pin forces on bodies, links,
 supports), never entry by entry, so a frame of 10,000 bodies assembles in milliseconds.
@@ -25,10 +24,9 @@ from .model import GROUND, PIN_LOAD, Job
 
 #: Above this many unknowns the rank is not found by a dense SVD; the sparse factorization decides.
 DENSE_RANK_LIMIT = 2000
-#: Up to this many unknowns and equations the frame is solved dense with numpy (an SVD for the rank, an
-#: LU for the solution): at this size that is cheaper than a sparse factorization, and scipy is not
-#: imported at all, which keeps a small job's start-up short.
-DENSE_SOLVE_LIMIT = 200
+#: Up to this many unknowns the dense SVD decides determinacy before the factorization, as it is cheap
+#: at this size (a millisecond); above, the sparse factor's pivots decide whether the SVD is needed.
+SVD_FIRST_LIMIT = 200
 #: A sparse factorization with a pivot below this fraction of the largest pivot is taken as a sign of a
 #: singular system; up to DENSE_RANK_LIMIT unknowns the dense SVD then decides (and says where).
 PIVOT_SUSPECT = 1e-8
@@ -122,6 +120,11 @@ def _members(job: Job) -> dict[str, list[str]]:
         if load.at.pin is not None and load.body is None and PIN_LOAD not in members[load.at.pin]:
             members[load.at.pin].append(PIN_LOAD)
     return members
+
+
+def _places(job: Job) -> list[tuple[float, float]]:
+    """Every point of the frame: body points and pins (a pin may stand where only links meet)."""
+    return [xy for b in job.bodies.values() for xy in b.points.values()] + [p.xy for p in job.pins.values()]
 
 
 def _unit(a_xy: npt.NDArray[np.float64], b_xy: npt.NDArray[np.float64]) -> npt.NDArray[np.float64]:
@@ -285,7 +288,9 @@ def _triplets(job: Job):
 
     n_pts = np.array([len(b.points) for b in job.bodies.values()], dtype=np.intp)
     pts = np.array([xy for b in job.bodies.values() for xy in b.points.values()], dtype=float).reshape(-1, 2)
-    span = float(np.ptp(pts, axis=0).max()) if len(pts) > 1 else 1.0
+    pin_xy = np.array([p.xy for p in job.pins.values()], dtype=float).reshape(-1, 2)
+    places = np.concatenate([pts, pin_xy])  # as _places(job): a pin may stand where only links meet
+    span = float(np.ptp(places, axis=0).max()) if len(places) > 1 else 1.0
     L = span if span > 0 else 1.0  # moment rows are divided by L so every entry is of order one
     # reference point of each body: the mean of its points
     ref = _group_sum(pts, np.repeat(np.arange(n_body), n_pts), n_body) / np.maximum(n_pts, 1)[:, None]
@@ -293,7 +298,6 @@ def _triplets(job: Job):
     eqs, unk = _Index(), _Index()
     body_row = eqs.take_each(np.full(n_body, 3), lambda: [f"body {n}" for n in body_names])
     pin_row = eqs.take_each(np.full(n_pin, 2), lambda: [f"pin {n}" for n in pin_names])
-    pin_xy = np.array([p.xy for p in job.pins.values()], dtype=float).reshape(-1, 2)
     E = _Entries(L)
     slots = _slots(job, members, pin_ix, body_ix)
     pb_pin, pb_body = slots.pb_pin, slots.pb_body
@@ -379,7 +383,7 @@ def _triplets(job: Job):
     rows, cols, vals = E.arrays()
     numbering = dict(
         cases=cases, members=members, L=L, eqs=eqs, unk=unk, pin_body_col=pin_body_col,
-        link_col=link_col, sup_col=sup_col, slots=slots, pb_col=pb_col, pin_xy=pin_xy, pts=pts,
+        link_col=link_col, sup_col=sup_col, slots=slots, pb_col=pb_col, pin_xy=pin_xy, places=places,
     )
     return rows, cols, vals, (eqs.n, unk.n), b, numbering
 
@@ -390,12 +394,6 @@ def assemble(job: Job):
 
     rows, cols, vals, shape, b, numbering = _triplets(job)
     return sp.csc_matrix((vals, (rows, cols)), shape=shape), b, numbering
-
-
-def _dense(rows, cols, vals, shape) -> npt.NDArray[np.float64]:
-    A = np.zeros(shape)
-    np.add.at(A, (rows, cols), vals)
-    return A
 
 
 def _involved(owners: list[str], weights: npt.NDArray[np.float64]) -> str:
@@ -465,36 +463,34 @@ def _pivot_ratio(lu) -> float:
 def solve(job: Job) -> FrameSolution:
     """Solve the frame of ``job`` for every load case.
 
-    A small frame is solved dense: the SVD decides determinacy, one LU solves every case. A large one
-    is factored sparse once (SuperLU) and every case solved with that factor. A sparse factor that
-    fails, or has a pivot that is tiny against the largest, is a sign of a singular system: the dense
-    SVD then decides and says where, when the frame is small enough for it; otherwise it is reported
-    as singular. The equilibrium of every body and pin is checked on the solved forces.
+    The equations are factored once (SuperLU) and every case solved with that factor. A small frame's
+    determinacy is decided first by the dense SVD, as before; for a larger one a failed factor, or a
+    pivot that is tiny against the largest, is the sign of a singular system: the dense SVD then
+    decides and says where, when the frame is small enough for it; otherwise it is reported as
+    singular. The equilibrium of every body and pin is checked on the solved forces.
 
     Raises:
         StructureError: a mechanism, an indeterminate structure, or a cable in compression.
     """
-    rows, cols, vals, shape, b, num = _triplets(job)
-    if max(shape) <= DENSE_SOLVE_LIMIT:
-        A = _dense(rows, cols, vals, shape)
-        _diagnose(job, A, num)
-        return _collect(job, np.linalg.solve(A, b) if shape[0] else np.zeros_like(b), num)
-
     import scipy.sparse as sp
     import scipy.sparse.linalg as spla
 
+    rows, cols, vals, shape, b, num = _triplets(job)
     A = sp.csc_matrix((vals, (rows, cols)), shape=shape)
-    if shape[0] != shape[1]:
-        _diagnose(job, A, num)  # raises: the counts differ
+    n = max(shape)
+    checked = n <= min(SVD_FIRST_LIMIT, DENSE_RANK_LIMIT) or shape[0] != shape[1]
+    if checked:
+        _diagnose(job, A, num)  # raises for a mechanism or an indeterminate frame (always when not square)
     try:
         lu = spla.splu(A)
     except RuntimeError:
         lu = None
-    n = max(shape)
-    if lu is None or _pivot_ratio(lu) < (PIVOT_SUSPECT if n <= DENSE_RANK_LIMIT else _rank_tol(shape, np.ones(1))):
+    suspect = PIVOT_SUSPECT if n <= DENSE_RANK_LIMIT else _rank_tol(shape, np.ones(1))
+    if lu is None or (not checked and _pivot_ratio(lu) < suspect):
         if n > DENSE_RANK_LIMIT:
             raise StructureError(Problem(job.path, "", "", _SINGULAR))
-        _diagnose(job, A, num)  # raises when the SVD finds the system singular, naming what is involved
+        if not checked:
+            _diagnose(job, A, num)  # raises when the SVD finds the system singular, naming what is involved
         if lu is None:
             return _collect(job, np.linalg.solve(A.toarray(), b), num)
     return _collect(job, lu.solve(b), num)
@@ -551,7 +547,8 @@ def _collect(job: Job, x: npt.NDArray[np.float64], num) -> FrameSolution:
             for k, pname in enumerate(job.pins)}
 
     sol = FrameSolution(cases, pins, links, supports, residual=0.0)
-    residual = _residual(job, sol, Fm, (sl.pb_slot, sl.pb_body, num["pin_xy"][sl.pb_pin]), num["pts"])
+    residual = _residual(job, sol, Fm, (sl.pb_slot, sl.pb_body, num["pin_xy"][sl.pb_pin], sl.pb_pin),
+                         num["places"])
     if not residual <= RESIDUAL_TOL:
         raise StructureError(Problem(job.path, "", "", (
             f"the solution does not satisfy equilibrium (relative residual {residual:.2e} > "
@@ -576,40 +573,94 @@ def equilibrium_residual(job: Job, sol: FrameSolution) -> float:
     """Largest out-of-balance force or moment of any body or pin, relative to the largest force.
 
     Worked from the solved forces themselves, not from the matrix that produced them, so an assembly
-    mistake cannot hide: every body sums what its pins, links, supports and loads put on it.
+    mistake cannot hide: every body sums what its pins, links, supports and loads put on it, every pin
+    what its bodies, links, support and hung load put on it (from the link tensions and reactions
+    reported, each of which must also be the opposite of the force the pin reports for that member).
     """
     n_case = len(sol.cases)
     forces = [pf.force.transpose(1, 0, 2) for pf in sol.pins.values()]
     Fm = np.concatenate(forces) if forces else np.zeros((0, n_case, 2))
     body_ix = {b: i for i, b in enumerate(job.bodies)}
-    on_body = [(i, body_ix[m], job.pins[pf.pin].xy)
-               for i, (pf, m) in enumerate((pf, m) for pf in sol.pins.values() for m in pf.members) if m in body_ix]
-    slot = np.array([i for i, _, _ in on_body], dtype=np.intp)
-    body = np.array([bi for _, bi, _ in on_body], dtype=np.intp)
-    xy = np.array([xy for _, _, xy in on_body], dtype=float).reshape(-1, 2)
-    pts = np.array([xy for b in job.bodies.values() for xy in b.points.values()], dtype=float).reshape(-1, 2)
-    return _residual(job, sol, Fm, (slot, body, xy), pts)
+    on_body = [(i, body_ix[m], job.pins[pf.pin].xy, k)
+               for i, (k, pf, m) in enumerate((k, pf, m) for k, pf in enumerate(sol.pins.values())
+                                              for m in pf.members) if m in body_ix]
+    slot = np.array([i for i, _, _, _ in on_body], dtype=np.intp)
+    body = np.array([bi for _, bi, _, _ in on_body], dtype=np.intp)
+    xy = np.array([xy for _, _, xy, _ in on_body], dtype=float).reshape(-1, 2)
+    pin = np.array([k for _, _, _, k in on_body], dtype=np.intp)
+    return _residual(job, sol, Fm, (slot, body, xy, pin), np.array(_places(job), dtype=float).reshape(-1, 2))
 
 
-def _residual(job: Job, sol: FrameSolution, Fm: npt.NDArray[np.float64], on_body, pts) -> float:
+def _residual(job: Job, sol: FrameSolution, Fm: npt.NDArray[np.float64], on_body, places) -> float:
     """equilibrium_residual from the pins' forces one member slot after another, ``Fm`` (slot, case, 2),
-    ``on_body`` = (slot, body index, pin x y) of every slot whose member is a body, and every body point.
+    ``on_body`` = (slot, body index, pin x y, pin index) of every slot whose member is a body, and every
+    point of the frame. Every sum adds its terms in the order a loop over the job would.
     """
     n_case = len(sol.cases)
     case_ix = {c: j for j, c in enumerate(sol.cases)}
     body_ix = {b: i for i, b in enumerate(job.bodies)}
     n_body = len(body_ix)
     pin_list = list(sol.pins.values())
+    pin_ix = {pf.pin: k for k, pf in enumerate(pin_list)}
+    n_pin = len(pin_list)
+    slot, body, xy, slot_pin = on_body
 
-    # each pin: the opposite of what it gives its members
-    slot_pin = np.repeat(np.arange(len(pin_list)), [len(pf.members) for pf in pin_list])
-    P = -_group_sum(Fm, slot_pin, len(pin_list))
+    # each pin: the opposite of what it gives its bodies, then what its links, support and hung load
+    # put on it, from their own results (links, ground and loads accumulate per member too, to compare
+    # with the entry the pin reports for that member)
+    P = -_group_sum(Fm, slot_pin, n_pin, rows=slot)
+    on_pin_key: dict[tuple[str, str], int] = {}
+    ends = [(end.pin, lname, s, li) for li, (lname, link) in enumerate(job.links.items())
+            for end, s in zip(link.ends, (1.0, -1.0), strict=True) if end.pin is not None and end.pin in pin_ix]
+    if ends:
+        link_list = list(job.links.values())
+        u = _unit(_xy(lk.ends[0] for lk in link_list), _xy(lk.ends[1] for lk in link_list))
+        li = np.array([e[3] for e in ends], dtype=np.intp)
+        su = np.array([e[2] for e in ends])[:, None] * u[li]
+        T = np.stack([np.asarray(sol.links[link_list[i].name], dtype=float) for i in li.tolist()])
+        f_end = T[:, :, None] * su[:, None, :]  # (end, case, 2), as np.outer(T, s * u)
+        k_end = np.array([pin_ix[e[0]] for e in ends], dtype=np.intp)
+        np.add.at(P, k_end, f_end)
+        key = np.array([on_pin_key.setdefault((e[0], e[1]), len(on_pin_key)) for e in ends], dtype=np.intp)
+        on_link = np.zeros((len(on_pin_key), n_case, 2))
+        np.add.at(on_link, key, f_end)
+    else:
+        on_link = np.zeros((0, n_case, 2))
+    ground = np.zeros((n_pin, n_case, 2))
+    hung = np.zeros((n_pin, n_case, 2))
+    sups = [(pin_ix[s.at.pin], sname) for sname, s in job.supports.items()
+            if s.at.pin is not None and s.at.pin in pin_ix]
+    if sups:
+        R = np.stack([np.asarray(sol.supports[n], dtype=float)[:, :2] for _, n in sups])
+        k_sup = np.array([k for k, _ in sups], dtype=np.intp)
+        np.add.at(P, k_sup, R)
+        np.add.at(ground, k_sup, R)
+    loads_p = [ld for ld in job.loads if ld.at.pin is not None and ld.body is None and ld.at.pin in pin_ix]
+    if loads_p:
+        k_ld = np.array([pin_ix[ld.at.pin] for ld in loads_p], dtype=np.intp)
+        j_ld = np.array([case_ix[ld.case] for ld in loads_p], dtype=np.intp)
+        f_ld = np.array([ld.force for ld in loads_p], dtype=float)
+        np.add.at(P, (k_ld, j_ld), f_ld)
+        np.add.at(hung, (k_ld, j_ld), f_ld)
+    # each member that is not a body: the pin's entry for it and what it puts on the pin cancel
+    other = [(i, k, m) for i, (k, m) in enumerate((k, m) for k, pf in enumerate(pin_list) for m in pf.members)
+             if m not in body_ix]
+    mismatch = 0.0
+    if other:
+        given = np.zeros((len(other), n_case, 2))
+        for r, (_, k, m) in enumerate(other):
+            if (pin_list[k].pin, m) in on_pin_key:
+                given[r] = on_link[on_pin_key[(pin_list[k].pin, m)]]
+            elif m == GROUND:
+                given[r] = ground[k]
+            elif m == PIN_LOAD:
+                given[r] = hung[k]
+        mismatch = np.abs(Fm[[i for i, _, _ in other]] + given).max(initial=0.0)
 
     # each body: Fx, Fy and Mz about the origin of every force on it: what its pins give it, then its
     # links, its supports (item by item: (item, case, 3))
     items: list[npt.NDArray[np.float64]] = []
     who: list[npt.NDArray[np.intp]] = []
-    slot, body, xy = on_body
     F = np.zeros((n_body, n_case, 3))  # Fx, Fy, Mz about the origin
     if slot.size:
         F[:, :, :2] = _group_sum(Fm, body, n_body, rows=slot)
@@ -651,7 +702,7 @@ def _residual(job: Job, sol: FrameSolution, Fm: npt.NDArray[np.float64], on_body
         np.add.at(F, (bi, j, 1), f[:, 1])
         np.add.at(F, (bi, j, 2), X * f[:, 1] - Y * f[:, 0] + m)
 
-    L = max(float(np.abs(pts).max(initial=0.0)), 1e-9)
+    L = max(float(np.abs(places).max(initial=0.0)), 1e-9)
     ld_f = np.array([ld.force for ld in job.loads], dtype=float).reshape(-1, 2)
     ld_m = np.array([ld.moment for ld in job.loads], dtype=float)
     scale = max(
@@ -663,5 +714,5 @@ def _residual(job: Job, sol: FrameSolution, Fm: npt.NDArray[np.float64], on_body
         1e-300,
     )
     worst = max(np.abs(F[:, :, :2]).max(initial=0.0), np.abs(F[:, :, 2]).max(initial=0.0) / L,
-                np.abs(P).max(initial=0.0))
+                np.abs(P).max(initial=0.0), mismatch)
     return float(worst / scale)

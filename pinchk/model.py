@@ -25,11 +25,30 @@ class Material:
 
 
 @dataclass(frozen=True)
+class Section:
+    """Elastic section of a member for the stiffness solve: E [Pa], A [m^2], I [m^4]."""
+
+    name: str
+    E: float
+    A: float
+    I: float
+    source: str = ""
+
+
+@dataclass(frozen=True)
 class Body:
-    """A rigid body with named points (x, y) [m]."""
+    """A body with named points (x, y) [m]: rigid for statics; beam members for the stiffness solve.
+
+    ``members`` are the pairs of points joined by beam elements (empty: a chain in point order);
+    ``section`` their elastic section (None: the body has none, and only statics can solve it);
+    ``member_sections`` the members whose section differs from the body's.
+    """
 
     name: str
     points: dict[str, tuple[float, float]]
+    section: Section | None = None
+    members: tuple[tuple[str, str], ...] = ()
+    member_sections: dict[tuple[str, str], Section] = field(default_factory=dict)
 
 
 @dataclass(frozen=True)
@@ -44,6 +63,23 @@ class Place:
     @property
     def label(self) -> str:
         return self.pin if self.pin is not None else f"{self.body}.{self.point}"
+
+
+@dataclass(frozen=True)
+class Bushing:
+    """A bushing fitted in a plate's hole: the pin bears on its bore, it bears on the plate."""
+
+    outer: float  # outside diameter = the plate's hole [m]
+    material: Material
+
+
+@dataclass(frozen=True)
+class Lateral:
+    """A load on a lug out of the frame's plane: a fraction of its in-plane force, or a force per case [N]."""
+
+    fraction: float | None = None
+    per_case: dict[str, float] = field(default_factory=dict)
+    base_width: float | None = None  # width of the base section (None: from the outline)
 
 
 @dataclass(frozen=True)
@@ -65,6 +101,11 @@ class Plate:
     hole: float  # hole diameter in this plate
     en_type: str  # EN 1993-1-8 Table 3.9 type: "A" or "B"
     stiffened: bool = False  # stiffened out of plane against dishing (ASME BTH-1 §3-3.3.1 4t limit waived)
+    outline: object | None = None  # a pinchk.lug.Outline; None: round (radius end) or square, from width/end
+    axis: tuple[float, float] | None = None  # lug axis (frame coordinates); None: along each case's force
+    group: str | None = None  # plates of one member with one group act as one (main plate and cheeks)
+    bushing: Bushing | None = None
+    lateral: Lateral | None = None
 
     @property
     def checked(self) -> bool:
@@ -85,6 +126,9 @@ class Pin:
     rotates: bool = False
     bolt: BoltSpec | None = None  # the pin is a bolt of a grade (its material is the grade's strengths)
     secured: bool = False  # secured against working loose (cotter, keeper plate, nut), as the job says
+    pin_model: str = "uniform"  # bearing on the pin: "uniform" over each plate, or "point" at plate centres
+    wear: float = 0.0  # wear allowance on every hole's diameter [m] (a larger service clearance)
+    retainer: float | None = None  # axial capacity of the pin's retainer [N], if given
 
     @property
     def checked(self) -> bool:
@@ -98,6 +142,7 @@ class Link:
     name: str
     kind: str  # "link" or "cable"
     ends: tuple[Place, Place]
+    EA: float | None = None  # axial stiffness [N] for the stiffness solve; None: axially rigid
 
 
 @dataclass(frozen=True)
@@ -188,6 +233,7 @@ class Job:
     loads: tuple[Load, ...]
     cases: dict[str, Case]
     info: dict[str, str] = field(default_factory=dict)
+    solver: str = "auto"  # frame solve: "auto", "statics" or "stiffness" (pinchk.solve)
     forces: ForcesSource | None = None  # set when the job reads its joint forces from a forces file
     combinations: dict[str, Combination] = field(default_factory=dict)  # empty: each case on its own
     stack_factors: tuple[StackFactor, ...] = ()

@@ -13,22 +13,30 @@ import numpy as np
 import pytest
 
 import pinchk
+from pinchk import joint
 from pinchk.checks import COLUMNS, check_table
 from pinchk.methods import aisc360_16, en1993_1_8, make_check
 from pinchk.methods._lookup import per_text
 
 
-def _loop_table(blocks, cases):
-    """run_checks' table as it was built before: Python lists, one row at a time."""
+def _loop_table(blocks, cases, dropped=None):
+    """run_checks' table as it was built before: Python lists, one row at a time (its emit())."""
+    dropped = [0] if dropped is None else dropped
     nc = len(cases)
     cols = {k: [] for k in COLUMNS}
-    for checks, labels, stack_text in blocks:
+    for checks, labels, stack_text, *more in blocks:
+        notes, keep = (list(more) + [None, None])[:2]
         n = len(labels)
         pins_ = np.repeat([p for p, _ in labels], nc) if n else np.array([], dtype=str)
         parts = np.repeat([q for _, q in labels], nc) if n else np.array([], dtype=str)
         case_col = np.tile(np.array(cases, dtype=object), n)
         for ch in checks:
+            if keep is not None and not keep(ch.name):
+                continue
             mask = np.ones(n * nc, bool) if ch.mask is None else np.asarray(ch.mask, bool)
+            unbounded = mask & np.isposinf(ch.capacity)
+            dropped[0] += int(unbounded.sum())
+            mask = mask & ~unbounded
             if not mask.any():
                 continue
             dem, cap = ch.demand[mask], ch.capacity[mask]
@@ -48,7 +56,10 @@ def _loop_table(blocks, cases):
             cols["formula"] += [ch.formula] * k
             stack = stack_text[mask] if ch.uses_forces else [""] * k
             cols["factors"] += [ch.factors + ("; " if ch.factors and s else "") + s for s in stack]
-            cols["note"] += [ch.note] * k
+            if notes is None or any(w in ch.name for w in joint.OUTLINE_FREE):
+                cols["note"] += [ch.note] * k
+            else:
+                cols["note"] += ["; ".join(x for x in (ch.note, notes[i]) if x) for i in np.flatnonzero(mask)]
     out = {}
     for k in COLUMNS:
         if k in ("demand", "capacity", "utilization"):
@@ -73,15 +84,22 @@ def _blocks(rng, stacks):
         checks = [make_check("a", "X 1: a <= b", "force", dem, cap, "γ = 1"),
                   make_check("b", "X 2: c <= d", "length", dem * 2, cap, "", mask=rng.random(n) < 0.5),
                   make_check("c", "X 3: e <= f", "ratio", dem, cap, "γ = 2", mask=np.zeros(n, bool)),
-                  make_check("d", "X 4: g <= h", "length", dem, cap, "γ = 3", uses_forces=False, note="n")]
-        blocks.append((checks, labels, np.array(rng.choice(stacks, n), dtype=object)))
+                  make_check("d", "X 4: g <= h", "length", dem, cap, "γ = 3", uses_forces=False, note="n"),
+                  make_check("bearing", "X 5: i <= j", "force", dem, np.where(cap > 1.3, np.inf, cap), "",
+                             note="m"),
+                  make_check("skip me", "X 6: k <= l", "force", dem, cap, "")]
+        notes = list(rng.choice(["", "off axis", "off axis 20°"], n))
+        blocks.append((checks, labels, np.array(rng.choice(stacks, n), dtype=object), notes,
+                       lambda name: name != "skip me"))
     return blocks, cases
 
 
 @pytest.mark.parametrize("stacks", [[""], ["dynamic 1.15"], ["", "dynamic 1.15", "skew 1.25; dynamic 1.15"]])
 def test_check_table_as_the_loop_built_it(stacks):
     blocks, cases = _blocks(np.random.default_rng(len(stacks)), stacks)
-    new, old = check_table(blocks, cases), _loop_table(blocks, cases)
+    d_new, d_old = [0], [0]
+    new, old = check_table(blocks, cases, d_new), _loop_table(blocks, cases, d_old)
+    assert d_new == d_old and d_new[0] > 0  # rows of unbounded capacity left out, and counted
     for k in COLUMNS:
         if isinstance(old[k], tuple):
             assert isinstance(new[k], tuple) and new[k] == old[k], k
