@@ -34,16 +34,18 @@ def _captured(mod):
     pin, plate, table = mod.pin_checks, mod.plate_checks, checks.check_table
 
     def cap_pin(P, f, v):
-        got["P"], got["f"], got["v"] = P, f, v
+        got.setdefault("P", P)  # the first call: the pins (later calls may be other kinds of part)
+        got["f"], got["v"] = f, v
         return pin(P, f, v)
 
     def cap_plate(Q, f, v):
-        got["Q"], got["f"], got["v"] = Q, f, v
+        got.setdefault("Q", Q)  # the first call: the plates (a later one: bushes)
+        got["f"], got["v"] = f, v
         return plate(Q, f, v)
 
-    def cap_table(blocks, cases):
+    def cap_table(blocks, cases, *rest):
         got["blocks"], got["cases"] = blocks, cases
-        return table(blocks, cases)
+        return table(blocks, cases, *rest)
 
     mod.pin_checks, mod.plate_checks, checks.check_table = cap_pin, cap_plate, cap_table
     try:
@@ -60,7 +62,7 @@ class Rows:
         self.mod = METHODS[job.method.name]
         with _captured(self.mod) as got:
             pinchk.run(job)
-        (_, pin_lab, pin_st), (_, plate_lab, plate_st) = got["blocks"]
+        (_, pin_lab, pin_st, *pin_more), (_, plate_lab, plate_st, *plate_more) = got["blocks"][:2]
         self.f, self.variant, self.cases = got["f"], got["v"], got["cases"]
 
         def tile(cols):
@@ -69,14 +71,18 @@ class Rows:
         def labels(lab):
             return [(f"{p}#{r}", q) for r in range(reps) for p, q in lab]
 
+        def more(extra):  # the per-row notes of the block, if any
+            return [None if x is None else np.tile(np.asarray(x, dtype=object), reps).tolist() for x in extra]
+
         self.P, self.pin_lab, self.pin_stack = tile(got["P"]), labels(pin_lab), np.tile(pin_st, reps)
         self.Q, self.plate_lab, self.plate_stack = tile(got["Q"]), labels(plate_lab), np.tile(plate_st, reps)
+        self.pin_more, self.plate_more = more(pin_more), more(plate_more)
 
     def kernel(self) -> dict[str, object]:
         """The method's checks over every row and the long results table: the timed work."""
         m, f, v = self.mod, self.f, self.variant
-        blocks = [(m.pin_checks(self.P, f, v), self.pin_lab, self.pin_stack),
-                  (m.plate_checks(self.Q, f, v), self.plate_lab, self.plate_stack)]
+        blocks = [(m.pin_checks(self.P, f, v), self.pin_lab, self.pin_stack, *self.pin_more),
+                  (m.plate_checks(self.Q, f, v), self.plate_lab, self.plate_stack, *self.plate_more)]
         return checks.check_table(blocks, self.cases)
 
 
@@ -111,6 +117,12 @@ def pint_loop(rows: Rows) -> dict[tuple[str, str, str, str], float]:
         dem = demand.magnitude if hasattr(demand, "units") else demand
         return dem / cap if cap > 0 else math.inf
 
+    def put(key, demand, capacity) -> None:
+        """Record a check, unless the capacity is unbounded (no free edge ahead of the force: no row)."""
+        cap = capacity.to(demand.units).magnitude if hasattr(capacity, "units") else capacity
+        if not math.isinf(cap):
+            out[key] = util(demand, capacity)
+
     P = rows.P
     assert not P["bolt"].any(), "the loop covers pins, not bolts"
     for i in range(len(P["d"])):
@@ -122,12 +134,12 @@ def pint_loop(rows: Rows) -> dict[tuple[str, str, str, str], float]:
         if P["uls"][i]:
             Fv_Rd = 0.6 * A * fup / g2
             M_Rd = 1.5 * Wel * fyp / g0
-            out[(pin, "pin", "pin shear", case)] = util(V, Fv_Rd)
-            out[(pin, "pin", "pin bending", case)] = util(M, M_Rd)
+            put((pin, "pin", "pin shear", case), V, Fv_Rd)
+            put((pin, "pin", "pin bending", case), M, M_Rd)
             inter = ((M / M_Rd) ** 2 + (V / Fv_Rd) ** 2).to("dimensionless").magnitude
-            out[(pin, "pin", "pin shear + bending", case)] = inter / 1.0
+            put((pin, "pin", "pin shear + bending", case), inter, 1.0)
         if P["ser"][i]:
-            out[(pin, "pin", "pin bending (serviceability)", case)] = util(M, 0.8 * Wel * fyp / g6)
+            put((pin, "pin", "pin bending (serviceability)", case), M, 0.8 * Wel * fyp / g6)
     Q = rows.Q
     for i in range(len(Q["F"])):
         (pin, part), case = rows.plate_lab[i // nc], rows.cases[i % nc]
@@ -137,18 +149,18 @@ def pint_loop(rows: Rows) -> dict[tuple[str, str, str, str], float]:
         a_end, width = Q_(Q["a_end"][i], "m"), Q_(Q["width"][i], "m")
         key = (pin, part)
         if Q["uls"][i]:
-            out[(*key, "bearing", case)] = util(F, 1.5 * t * d * fy_low / g0)
+            put((*key, "bearing", case), F, 1.5 * t * d * fy_low / g0)
             base = F * g0 / (2 * t * fy)
             if Q["type_b"][i]:
-                out[(*key, "thickness (type B)", case)] = util((0.7 * (F * g0 / fy) ** 0.5).to("m"), t)
-                out[(*key, "hole to thickness (type B)", case)] = util(d0, 2.5 * t)
+                put((*key, "thickness (type B)", case), (0.7 * (F * g0 / fy) ** 0.5).to("m"), t)
+                put((*key, "hole to thickness (type B)", case), d0, 2.5 * t)
             else:
-                out[(*key, "end distance (type A)", case)] = util((base + 2 * d0 / 3).to("m"), a_end - d0 / 2)
-                out[(*key, "edge distance (type A)", case)] = util((base + d0 / 3).to("m"), width / 2 - d0 / 2)
+                put((*key, "end distance (type A)", case), (base + 2 * d0 / 3).to("m"), a_end - d0 / 2)
+                put((*key, "edge distance (type A)", case), (base + d0 / 3).to("m"), width / 2 - d0 / 2)
         if Q["ser"][i]:
-            out[(*key, "bearing (serviceability)", case)] = util(F, 0.6 * t * d * fy_low / g6)
+            put((*key, "bearing (serviceability)", case), F, 0.6 * t * d * fy_low / g6)
             sigma = (0.591 * (E * F * (d0 - d) / (d**2 * t)) ** 0.5).to("Pa")
-            out[(*key, "contact stress", case)] = util(sigma, 2.5 * fy_low / g6)
+            put((*key, "contact stress", case), sigma, 2.5 * fy_low / g6)
     return out
 
 
