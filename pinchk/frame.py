@@ -643,8 +643,14 @@ def _residual(job: Job, sol: FrameSolution, Fm: npt.NDArray[np.float64], on_body
         np.add.at(P, (k_ld, j_ld), f_ld)
         np.add.at(hung, (k_ld, j_ld), f_ld)
     # each member that is not a body: the pin's entry for it and what it puts on the pin cancel
-    other = [(i, k, m) for i, (k, m) in enumerate((k, m) for k, pf in enumerate(pin_list) for m in pf.members)
-             if m not in body_ix]
+    lens = np.fromiter((len(pf.members) for pf in pin_list), np.intp, n_pin)
+    start = np.concatenate([[0], np.cumsum(lens)]).astype(np.intp)
+    is_body = np.zeros(int(start[-1]), dtype=bool)
+    is_body[slot] = True
+    rest = np.flatnonzero(~is_body)
+    k_rest = np.searchsorted(start, rest, side="right") - 1
+    other = [(i, k, pin_list[k].members[i - int(start[k])]) for i, k in zip(rest.tolist(), k_rest.tolist(),
+                                                                            strict=True)]
     mismatch = 0.0
     if other:
         given = np.zeros((len(other), n_case, 2))
