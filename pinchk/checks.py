@@ -13,7 +13,7 @@ from .model import Job
 from .stack import StackResult, solve_stack
 
 COLUMNS = ("pin", "part", "check", "case", "demand", "capacity", "kind", "utilization", "status", "clause",
-           "formula", "factors", "note")
+           "formula", "factors", "note", "worked_demand", "worked_capacity", "terms")
 
 
 @dataclass(frozen=True)
@@ -146,6 +146,11 @@ def run_checks(job: Job, sol: FrameSolution) -> Results:
             cols["formula"] += [ch.formula] * k
             cols["factors"] += [ch.factors] * k
             cols["note"] += [ch.note] * k
+            cols["worked_demand"] += [ch.worked[0]] * k
+            cols["worked_capacity"] += [ch.worked[1]] * k
+            # the formula's named inputs, row by row: ((symbol, kind, SI value), ...)
+            vals = [(sym, kd, np.broadcast_to(np.asarray(v, float), mask.shape)[mask]) for sym, kd, v in ch.terms]
+            cols["terms"] += [tuple((sym, kd, float(a[r])) for sym, kd, a in vals) for r in range(k)]
 
     if pin_lab:
         Pa = {k: np.concatenate(v) for k, v in P.items()}
@@ -158,6 +163,8 @@ def run_checks(job: Job, sol: FrameSolution) -> Results:
     for k in COLUMNS:
         if k in ("demand", "capacity", "utilization"):
             columns[k] = np.concatenate(cols[k]) if cols[k] else np.zeros(0)
+        elif k == "terms":
+            columns[k] = tuple(cols[k])
         else:
             columns[k] = tuple(str(x) for x in cols[k])
 

@@ -4,6 +4,20 @@ A method module defines NAME, EDITION, VARIANTS (e.g. ("ASD", "LRFD") or ()), FA
 (default, what it is and where it comes from)) and two functions, ``pin_checks(P, f, variant)`` and
 ``plate_checks(Q, f, variant)``, that take columns of SI arrays and return a list of ``Check``.
 Nothing in a method module knows about files, units or output.
+
+So that a report can show each row worked out ("Fb,Rd = 1.5 × 20 mm × 60 mm × 355 MPa / 1 = 639 kN"), a
+check may also carry ``terms``, the named input columns of its formula, and ``worked``, the demand and
+capacity as expressions in those names::
+
+    make_check("bearing", "EN 1993-1-8 Table 3.10: Fb,Rd = 1.5 t d fy / γM0", "force", F, Fb_Rd, "γM0 = 1",
+               terms=(term("FEd", "force", F), term("t", "length", t), term("d", "length", d),
+                      term("fy", "stress", fy), term("γM0", "ratio", g0)),
+               worked=("FEd = {FEd}", "Fb,Rd = 1.5 {t} {d} {fy} / {γM0}"))
+
+A term is (symbol, kind, values): the symbol as printed, the kind of figure (as ``Check.kind``) and the
+SI values, one per row or a scalar. ``{symbol}`` in an expression is replaced by that row's value in the
+output units; "×" is put between adjacent values. Both are optional: a check without them is reported
+with its formula, demand and capacity only. A new method only has to follow this pattern.
 """
 
 from __future__ import annotations
@@ -33,13 +47,21 @@ class Check:
     factors: str
     mask: npt.NDArray[np.bool_] | None = None
     note: str = ""
+    terms: tuple[tuple[str, str, object], ...] = ()  # (symbol, kind, SI values or a scalar)
+    worked: tuple[str, str] = ("", "")  # demand and capacity as expressions in {symbol}s
 
 
-def make_check(name, clause_formula, kind, demand, capacity, factors, mask=None, note="") -> Check:
+def term(symbol: str, kind: str, values) -> tuple[str, str, object]:
+    """One named input of a check's formula: (symbol as printed, kind of figure, SI values or a scalar)."""
+    return (symbol, kind, values)
+
+
+def make_check(name, clause_formula, kind, demand, capacity, factors, mask=None, note="", terms=(),
+               worked=("", "")) -> Check:
     """A Check from "clause: formula" text and array-likes (the form the method modules write)."""
     clause, _, formula = clause_formula.partition(": ")
     return Check(name, clause, formula, kind, np.asarray(demand, float), np.asarray(capacity, float),
-                 factors, mask, note)
+                 factors, mask, note, tuple(terms), tuple(worked))
 
 
 METHODS = {

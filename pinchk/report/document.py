@@ -1,0 +1,238 @@
+"""The calculation report, as Markdown or as one self-contained HTML file (jinja2 templates).
+
+Both formats show the same contents, in this order: the job block (number, revision, prepared and
+checked by, date), the verdict and the governing check, the summary table sorted by utilization, the
+method and every factor used, the inputs (geometry, materials with their sources, loads and cases), the
+solved forces, every check of every pin and plate in every case worked out (formula, values put in
+with their units, result, utilization, clause), the assumptions, the pictures and the caution.
+
+Pictures: HTML carries them inline (base64 PNG). Markdown cannot carry pictures in one file portably,
+so ``render_md`` writes none; ``pinchk.report.output.write_report`` writes them as PNG files beside the
+Markdown file (``NAME.frame.png``, ``NAME.lug.png``, ``NAME.utilization.png``) and links them.
+
+The date: ``date=`` if given, else the job's ``[job] date``, else ``SOURCE_DATE_EPOCH`` (the
+reproducible-builds convention), else today (UTC). Everything else depends only on the inputs, so a
+fixed date gives the same bytes on every run.
+"""
+
+from __future__ import annotations
+
+import base64
+import datetime as _dt
+import os
+
+import numpy as np
+
+from .. import __version__
+from . import CAUTION
+from .common import convert, fmt, force_rows, governing_by_check, unit_of, units_of, verdict
+from .worked import value_text, worked_line
+
+_TEMPLATES = os.path.join(os.path.dirname(__file__), "templates")
+
+
+def report_date(results, date: str | None = None) -> str:
+    if date:
+        return str(date)
+    if results.job.info.get("date"):
+        return results.job.info["date"]
+    epoch = os.environ.get("SOURCE_DATE_EPOCH")
+    when = _dt.datetime.fromtimestamp(int(epoch), _dt.UTC) if epoch and epoch.isdigit() else _dt.datetime.now(_dt.UTC)
+    return when.date().isoformat()
+
+
+def _L(v, units):
+    return value_text(v, "length", units) if v is not None else "-"
+
+
+def _S(v, units):
+    return value_text(v, "stress", units) if v is not None else "-"
+
+
+def context(results, date: str | None = None, pictures: dict[str, tuple[str, str]] | None = None) -> dict:
+    """Everything the templates show, as plain strings and lists (numbers already formatted)."""
+    from ..methods import METHODS
+
+    job, sol = results.job, results.solution
+    units = units_of(results)
+    fu, mu = unit_of("force", units), unit_of("moment", units)
+    c = results.columns
+    n = len(results)
+    util = c["utilization"]
+
+    def row_view(i: int) -> dict:
+        kind = c["kind"][i]
+        terms = c["terms"][i] if "terms" in c else ()
+        wd = c["worked_demand"][i] if "worked_demand" in c else ""
+        wc = c["worked_capacity"][i] if "worked_capacity" in c else ""
+        u = float(util[i])
+        return {
+            "pin": c["pin"][i], "part": c["part"][i], "check": c["check"][i], "case": c["case"][i],
+            "demand": fmt(convert(c["demand"][i], kind, units)),
+            "capacity": fmt(convert(c["capacity"][i], kind, units)),
+            "unit": unit_of(kind, units), "utilization": f"{u:.3f}", "status": c["status"][i],
+            "fails": u > 1.0, "band": _band(u), "clause": c["clause"][i], "formula": c["formula"][i],
+            "factors": c["factors"][i], "note": c["note"][i],
+            "worked_demand": worked_line(wd, terms, float(c["demand"][i]), kind, units),
+            "worked_capacity": worked_line(wc, terms, float(c["capacity"][i]), kind, units),
+            "inputs": ", ".join(f"{s} = {value_text(v, k, units)}" for s, k, v in terms),
+        }
+
+    # checks grouped by pin, then part, every case, in table order
+    by_pin: dict[str, dict[str, list[dict]]] = {}
+    for i in range(n):
+        by_pin.setdefault(c["pin"][i], {}).setdefault(c["part"][i], []).append(row_view(i))
+    pin_util = {}
+    for i in range(n):
+        pin_util[c["pin"][i]] = max(pin_util.get(c["pin"][i], 0.0), float(util[i]))
+
+    g = results.governing
+    mod = METHODS.get(results.method)
+    factors = []
+    for k, v in results.factors.items():
+        what = mod.FACTORS[k][1] if mod is not None and k in mod.FACTORS else ""
+        default = mod.FACTORS[k][0] if mod is not None and k in mod.FACTORS else None
+        factors.append({"name": k, "value": f"{v:g}", "what": what,
+                        "source": "job file" if k in job.method.factors else "method default",
+                        "default": "-" if default is None else f"{default:g}"})
+
+    mats: dict[tuple, dict] = {}
+    for p in job.pins.values():
+        for role, m in [("pin", p.material)] + [("plate", q.material) for q in p.stack]:
+            if m is None:
+                continue
+            key = (m.name, m.fy, m.fu, m.E, m.source)
+            entry = mats.setdefault(key, {"name": m.name, "fy": _S(m.fy, units), "fu": _S(m.fu, units),
+                                          "E": _S(m.E, units), "source": m.source, "used": set()})
+            entry["used"].add(f"{p.name} {role}")
+    materials = [{**v, "used": ", ".join(sorted(v["used"]))} for v in mats.values()]
+
+    def xy_text(xy):
+        return f"({fmt(convert(xy[0], 'length', units))}, {fmt(convert(xy[1], 'length', units))})"
+
+    pins = []
+    for p in job.pins.values():
+        try:
+            from ..checks import _part_names
+
+            parts = _part_names(p)
+        except Exception:  # noqa: BLE001  the part names are cosmetic here
+            parts = [q.member for q in p.stack]
+        pins.append({
+            "name": p.name, "xy": xy_text(p.xy),
+            "bodies": ", ".join(p.bodies) or "-", "d": _L(p.diameter, units),
+            "material": p.material.name if p.material else "-", "replaceable": "yes" if p.replaceable else "no",
+            "rotates": "yes" if p.rotates else "no", "checked": p.checked,
+            "plates": [{"part": part, "member": q.member, "t": _L(q.thickness, units), "gap": _L(q.gap, units),
+                        "hole": _L(q.hole, units), "width": _L(q.width, units), "end": _L(q.end, units),
+                        "shape": q.shape, "material": q.material.name if q.material else "not checked",
+                        "share": "by thickness" if q.share is None else f"{q.share:g}", "en_type": q.en_type}
+                       for q, part in zip(p.stack, parts, strict=False)],
+        })
+
+    bodies = [{"name": b.name, "points": ", ".join(f"{k} {xy_text(v)}" for k, v in b.points.items())}
+              for b in job.bodies.values()]
+    links = [{"name": lk.name, "kind": lk.kind, "ends": " – ".join(e.label for e in lk.ends)}
+             for lk in job.links.values()]
+    supports = [{"name": s.name, "kind": s.kind, "at": s.at.label,
+                 "normal": "-" if s.normal is None else f"({s.normal[0]:g}, {s.normal[1]:g})"}
+                for s in job.supports.values()]
+    loads = [{"case": ld.case, "at": ld.at.label, "body": ld.body or "-", "label": ld.label or "-",
+              "fx": fmt(convert(ld.force[0], "force", units)), "fy": fmt(convert(ld.force[1], "force", units)),
+              "m": fmt(convert(ld.moment, "moment", units))} for ld in job.loads]
+    cases = [{"name": k, "limit_state": v.limit_state, "description": v.description or "-"}
+             for k, v in job.cases.items()]
+
+    forces = [{"case": cs, "pin": p, "member": m, "fx": fmt(convert(fx, "force", units)),
+               "fy": fmt(convert(fy, "force", units)), "f": fmt(convert(f, "force", units)), "angle": f"{a:.1f}"}
+              for cs, p, m, fx, fy, f, a in force_rows(results)]
+    reactions = [{"case": cs, "support": s, "rx": fmt(convert(r[j, 0], "force", units)),
+                  "ry": fmt(convert(r[j, 1], "force", units)), "m": fmt(convert(r[j, 2], "moment", units))}
+                 for s, r in sol.supports.items() for j, cs in enumerate(sol.cases)]
+    link_forces = [{"case": cs, "link": k, "t": fmt(convert(t[j], "force", units))}
+                   for k, t in sol.links.items() for j, cs in enumerate(sol.cases)]
+    stacks = []
+    for name, st in results.stacks.items():
+        for j, cs in enumerate(sol.cases):
+            stacks.append({"pin": name, "case": cs, "v": fmt(convert(st.shear[j], "force", units)),
+                           "m": fmt(convert(st.moment[j], "moment", units)),
+                           "at": fmt(convert(st.moment_at[j], "length", units))})
+
+    info = job.info
+    method = results.method + (f" ({results.variant})" if results.variant else "")
+    return {
+        "title": job.title, "file": os.path.basename(job.path) if job.path else "-",
+        "number": info.get("number", "-"), "revision": info.get("revision", "-"),
+        "prepared_by": info.get("prepared_by", "-"), "checked_by": info.get("checked_by", "-"),
+        "client": info.get("client", "-"), "date": report_date(results, date), "version": __version__,
+        "method": method, "edition": results.edition, "variant": results.variant or "-",
+        "verdict": verdict(results), "passed": results.passed, "n_checks": n,
+        "n_fail": int(np.sum(util > 1.0)) if n else 0,
+        "governing": row_view(g) if g is not None else None,
+        "summary": [row_view(i) for i in governing_by_check(results)],
+        "factors": factors, "materials": materials, "bodies": bodies, "pins": pins, "links": links,
+        "supports": supports, "loads": loads, "cases": cases, "forces": forces, "reactions": reactions,
+        "link_forces": link_forces, "stacks": stacks, "solver": sol.solver,
+        "residual": f"{sol.residual:.1e}",
+        "checks": [{"pin": p, "utilization": f"{pin_util[p]:.3f}", "band": _band(pin_util[p]),
+                    "parts": [{"part": part, "rows": rows} for part, rows in parts.items()]}
+                   for p, parts in by_pin.items()],
+        "assumptions": list(results.assumptions), "unchecked": list(results.unchecked),
+        "caution": CAUTION, "pictures": pictures or {},
+        "units": {"force": fu, "moment": mu, "length": unit_of("length", units), "stress": unit_of("stress", units)},
+        "bands": _bands(),
+    }
+
+
+def _band(u: float) -> int:
+    from .figures import BANDS
+
+    for k, (top, _, _) in enumerate(BANDS):
+        if u <= top:
+            return k
+    return len(BANDS) - 1
+
+
+def _bands() -> list[dict]:
+    from .figures import BANDS
+
+    return [{"k": k, "colour": col, "text": text} for k, (_, col, text) in enumerate(BANDS)]
+
+
+def _env(autoescape: bool):
+    import jinja2
+
+    env = jinja2.Environment(loader=jinja2.FileSystemLoader(_TEMPLATES), autoescape=autoescape,
+                             trim_blocks=True, lstrip_blocks=True, keep_trailing_newline=True,
+                             undefined=jinja2.StrictUndefined)
+    env.filters["md"] = _md_cell
+    return env
+
+
+def _md_cell(text) -> str:
+    """Text safe inside a Markdown table cell."""
+    return str(text).replace("|", "\\|").replace("\n", " ")
+
+
+def pictures_png(results, progress=None) -> dict[str, tuple[str, bytes]]:
+    from .figures import all_figures
+
+    return all_figures(results, progress)
+
+
+def render_html(results, date: str | None = None, progress=None, **_) -> str:
+    """The report as one HTML file with its pictures inline (base64 PNG)."""
+    pics = {k: (cap, "data:image/png;base64," + base64.b64encode(png).decode("ascii"))
+            for k, (cap, png) in pictures_png(results, progress).items()}
+    return _env(True).get_template("report.html.j2").render(**context(results, date, pics))
+
+
+def render_md(results, date: str | None = None, pictures: dict[str, str] | None = None, **_) -> str:
+    """The report as Markdown; ``pictures`` maps a picture key to the file name to link (none: no pictures)."""
+    from .figures import all_figure_captions
+
+    pics = {}
+    if pictures:
+        caps = all_figure_captions(results)
+        pics = {k: (caps.get(k, k), v) for k, v in pictures.items()}
+    return _env(False).get_template("report.md.j2").render(**context(results, date, pics))

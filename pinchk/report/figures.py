@@ -1,0 +1,501 @@
+"""Pictures for the calculation report: the frame, the governing lug and the utilizations, as PNG bytes.
+
+matplotlib is imported here only, lazily (the report formats need it, the other views do not), and
+drives no GUI: each figure is a ``matplotlib.figure.Figure`` drawn by the Agg renderer. Every figure is
+drawn under matplotlib's default style with fixed metadata (no software tag, no date, a fixed SVG hash
+salt), so the same results give the same bytes.
+
+The colour scale is one set of bands of utilization, used by every picture (``BANDS``).
+"""
+
+from __future__ import annotations
+
+import io
+import math
+
+import numpy as np
+
+from .common import convert, fmt, unit_of, units_of
+
+#: Utilization bands: (upper limit, colour, legend text). Shared by every picture and the HTML tables.
+BANDS = (
+    (0.50, "#3b6ea8", "under 0.50"),
+    (0.80, "#55a38a", "0.50 to 0.80"),
+    (0.95, "#d9a520", "0.80 to 0.95"),
+    (1.00, "#e06a1b", "0.95 to 1.00"),
+    (math.inf, "#b3152c", "over 1.00 (fails)"),
+)
+UNCHECKED = "#9a9a9a"
+BODY = "#5d6d7e"
+LINK = "#2e4053"
+LOAD = "#111111"
+PIN_FORCE = "#7b2d8e"
+
+_RC = {"svg.hashsalt": "pinchk", "font.size": 9, "axes.titlesize": 10, "figure.dpi": 100}
+
+
+def band_colour(u: float) -> str:
+    """The colour of utilization ``u``."""
+    for top, colour, _ in BANDS:
+        if u <= top:
+            return colour
+    return BANDS[-1][1]
+
+
+def _png(fig) -> bytes:
+    buf = io.BytesIO()
+    fig.savefig(buf, format="png", dpi=110, metadata={"Software": None})
+    return buf.getvalue()
+
+
+def _figure(w: float, h: float, layout: str | None = "constrained"):
+    from matplotlib.figure import Figure
+
+    return Figure(figsize=(w, h), layout=layout)
+
+
+def _drawing(size: tuple[float, float], legend: float):
+    """A figure with one equal-aspect drawing area on the left and ``legend`` inches free on the right."""
+    w, h = size
+    fig = _figure(w, h, layout=None)
+    left, bottom, top = 0.75 / w, 0.55 / h, 0.4 / h
+    ax = fig.add_axes((left, bottom, (w - legend - 0.2) / w - left, 1 - bottom - top))
+    ax.set_aspect("equal", adjustable="box", anchor="W")
+    return fig, ax
+
+
+class _Styled:
+    """Default matplotlib style plus the fixed settings of ``_RC`` (a user's matplotlibrc is ignored)."""
+
+    def __enter__(self):
+        import contextlib
+
+        import matplotlib as mpl
+        import matplotlib.style
+
+        self._stack = contextlib.ExitStack()
+        self._stack.enter_context(matplotlib.style.context("default"))
+        self._stack.enter_context(mpl.rc_context(_RC))
+        return self
+
+    def __exit__(self, *exc):
+        return self._stack.__exit__(*exc)
+
+
+
+def pin_utilization(results) -> dict[str, float]:
+    """Highest utilization of any check of each checked pin (the pin and its plates), every case."""
+    c = results.columns
+    out: dict[str, float] = {}
+    for p, u in zip(c["pin"], c["utilization"], strict=True):
+        out[p] = max(out.get(p, 0.0), float(u))
+    return out
+
+
+def governing_case(results) -> str | None:
+    g = results.governing
+    if g is not None:
+        return results.columns["case"][g]
+    return results.solution.cases[0] if results.solution.cases else None
+
+
+def _legend_handles(used_max: float):
+    from matplotlib.patches import Patch
+
+    return [Patch(facecolor=col, edgecolor="#333333", label=f"utilization {text}") for _, col, text in BANDS]
+
+
+# ---------------------------------------------------------------------------------------------- frame
+def frame_figure(results) -> bytes:
+    """The frame: bodies, links, supports, pins coloured by utilization, the governing case's loads and
+    the force each body receives at each pin in that case."""
+    with _Styled():
+        return _frame(results)
+
+
+def _frame(results) -> bytes:
+    from matplotlib.lines import Line2D
+    from matplotlib.patches import Circle, FancyArrowPatch, Polygon
+
+    job, sol = results.job, results.solution
+    units = units_of(results)
+    lu, fu = unit_of("length", units), unit_of("force", units)
+    case = governing_case(results)
+    j = sol.cases.index(case) if case in sol.cases else 0
+    util = pin_utilization(results)
+
+    pts = [xy for b in job.bodies.values() for xy in b.points.values()]
+    pts += [p.xy for p in job.pins.values()]
+    pts += [e.xy for lk in job.links.values() for e in lk.ends]
+    pts += [s.at.xy for s in job.supports.values()]
+    P = np.array(pts, float) if pts else np.zeros((1, 2))
+    lo, hi = P.min(axis=0), P.max(axis=0)
+    span = float(max(hi[0] - lo[0], hi[1] - lo[1], 1e-3))
+    k_len = lambda v: convert(v, "length", units)  # noqa: E731  drawing in output length units
+    s = 0.045 * span  # symbol size
+
+    loads = [ld for ld in job.loads if ld.case == case]
+    fmax = max([math.hypot(*ld.force) for ld in loads] + [1e-30])
+    tails = {}
+    for n_ld, ld in enumerate(loads):
+        f = math.hypot(*ld.force)
+        if f > 0:
+            tails[n_ld] = np.array(ld.at.xy) - 0.16 * span * (0.4 + 0.6 * f / fmax) * np.array(ld.force) / f
+    if tails:
+        T = np.array(list(tails.values()))
+        lo, hi = np.minimum(lo, T.min(axis=0)), np.maximum(hi, T.max(axis=0))
+    fig, ax = _drawing(_size(hi[0] - lo[0], hi[1] - lo[1], legend=2.9), legend=2.9)
+    ax.set_title(f"Frame, case '{case}' (the governing case): loads, pin forces and pin utilization")
+
+    # bodies: a light hull with the member lines between its points
+    for name, b in job.bodies.items():
+        xy = np.array(list(b.points.values()), float)
+        if len(xy) >= 3 and _area(xy) > 1e-6 * span**2:
+            hull = _hull(xy)
+            ax.add_patch(Polygon(k_len(hull), closed=True, facecolor="#d6dde4", edgecolor=BODY, lw=1.2,
+                                 zorder=1))
+        else:
+            order = np.lexsort((xy[:, 1], xy[:, 0]))
+            ax.plot(*k_len(xy[order]).T, color=BODY, lw=7, solid_capstyle="round", alpha=0.45, zorder=1)
+            ax.plot(*k_len(xy[order]).T, color=BODY, lw=1.2, zorder=1)
+        c = k_len(xy.mean(axis=0))
+        ax.annotate(name, c, xytext=(6, -12), textcoords="offset points", color=BODY, fontsize=8,
+                    style="italic", zorder=6)
+
+    for name, lk in job.links.items():
+        a, b = (k_len(np.array(e.xy)) for e in lk.ends)
+        ax.plot([a[0], b[0]], [a[1], b[1]], color=LINK, lw=3 if lk.kind == "link" else 1.2,
+                ls="-" if lk.kind == "link" else (0, (5, 3)), zorder=2)
+        t = sol.links.get(name)
+        label = name
+        if t is not None:
+            label = f"{name}: {'T' if t[j] >= 0 else 'C'} {fmt(abs(convert(t[j], 'force', units)))} {fu}"
+        ax.annotate(label, (a + b) / 2, xytext=(0, -11), textcoords="offset points", ha="center", fontsize=8,
+                    color=LINK, zorder=6)
+
+    for name, sup in job.supports.items():
+        _support(ax, k_len(np.array(sup.at.xy)), k_len(s), sup.kind, sup.normal, name)
+
+    # loads of the governing case
+    for n_ld, ld in enumerate(loads):
+        if n_ld not in tails:
+            continue
+        fx, fy = ld.force
+        f = math.hypot(fx, fy)
+        tip, tail = k_len(np.array(ld.at.xy)), k_len(tails[n_ld])
+        ax.add_patch(FancyArrowPatch(tail, tip, arrowstyle="-|>,head_length=6,head_width=3.5", lw=2.2,
+                                     color=LOAD, zorder=7, shrinkB=k_len(0) + 6))
+        ux, uy = fx / f, fy / f
+        ax.annotate(f"{ld.label or 'load'} {fmt(convert(f, 'force', units))} {fu}", tail,
+                    xytext=(-10 * ux, -10 * uy), textcoords="offset points", fontsize=8, zorder=8,
+                    ha="right" if ux > 0.3 else ("left" if ux < -0.3 else "center"),
+                    va="top" if uy > 0.3 else ("bottom" if uy < -0.3 else "center"))
+
+    # force each body receives at each pin in the governing case, drawn from the pin toward the body
+    fmax_pin = max([float(np.hypot(*pf.force[j, k])) for pf in sol.pins.values() for k in range(len(pf.members))]
+                   + [1e-30])
+    for pname, pf in sol.pins.items():
+        pxy = k_len(np.array(job.pins[pname].xy))
+        for k, m in enumerate(pf.members):
+            if m not in job.bodies:
+                continue
+            fx, fy = pf.force[j, k]
+            f = math.hypot(fx, fy)
+            if f <= 1e-9 * fmax_pin:
+                continue
+            bxy = k_len(np.array(list(job.bodies[m].points.values()), float).mean(axis=0))
+            toward = bxy - pxy
+            nt = float(np.hypot(*toward))
+            start = pxy + (toward / nt * k_len(1.2 * s) if nt > 0 else 0)
+            L = k_len(0.13 * span * f / fmax_pin)
+            end = start + L * np.array([fx, fy]) / f
+            ax.add_patch(FancyArrowPatch(start, end, arrowstyle="-|>,head_length=5,head_width=3", lw=1.4,
+                                         color=PIN_FORCE, zorder=7))
+            ax.annotate(f"{fmt(convert(f, 'force', units), 3)}", end, xytext=(2, -9), textcoords="offset points",
+                        fontsize=7, color=PIN_FORCE, zorder=8)
+
+    for pname, pin in job.pins.items():
+        xy = k_len(np.array(pin.xy))
+        u = util.get(pname)
+        col = UNCHECKED if u is None else band_colour(u)
+        ax.add_patch(Circle(xy, k_len(0.6 * s), facecolor=col, edgecolor="#222222", lw=1.2, zorder=9))
+        ax.add_patch(Circle(xy, k_len(0.18 * s), facecolor="white", edgecolor="#222222", lw=0.8, zorder=10))
+        text = f"{pname}\n" + ("not checked" if u is None else f"u = {u:.3f}")
+        ax.annotate(text, xy, xytext=(9, 7), textcoords="offset points", fontsize=8, fontweight="bold",
+                    zorder=11, bbox={"boxstyle": "round,pad=0.2", "fc": "white", "ec": col, "alpha": 0.9})
+
+    pad = k_len(0.16 * span)
+    ax.set_xlim(k_len(lo[0]) - pad, k_len(hi[0]) + pad)
+    ax.set_ylim(k_len(lo[1]) - pad, k_len(hi[1]) + pad)
+    ax.set_xlabel(f"x [{lu}]")
+    ax.set_ylabel(f"y [{lu}]")
+    ax.grid(True, color="#e5e5e5", lw=0.6)
+    handles = _legend_handles(max(util.values(), default=0.0))
+    handles.append(Line2D([], [], marker="o", ls="", mfc=UNCHECKED, mec="#222222", label="pin not checked"))
+    handles.append(Line2D([], [], color=LOAD, lw=2.2, label=f"load [{fu}]"))
+    handles.append(Line2D([], [], color=PIN_FORCE, lw=1.4, label=f"force a body receives at a pin [{fu}]"))
+    fig.legend(handles=handles, loc="upper right", fontsize=8, frameon=False,
+               title="pin colour: highest utilization\nof the pin and its plates,\nevery case", title_fontsize=8,
+               alignment="left")
+    return _png(fig)
+
+
+def _size(dx: float, dy: float, legend: float) -> tuple[float, float]:
+    """Figure size [in] for a drawing of extent dx by dy beside a legend ``legend`` inches wide."""
+    w_ax = 5.6
+    h = w_ax * (dy + 0.4 * max(dx, dy)) / (dx + 0.4 * max(dx, dy)) + 0.9
+    return w_ax + legend, min(max(h, 3.4), 7.5)
+
+
+def _area(xy) -> float:
+    h = _hull(xy)
+    x, y = h[:, 0], h[:, 1]
+    return 0.5 * abs(float(np.dot(x, np.roll(y, 1)) - np.dot(y, np.roll(x, 1))))
+
+
+def _hull(xy):
+    """Convex hull (monotone chain), counter-clockwise."""
+    pts = sorted({(float(a), float(b)) for a, b in xy})
+    if len(pts) < 3:
+        return np.array(pts)
+
+    def cross(o, a, b):
+        return (a[0] - o[0]) * (b[1] - o[1]) - (a[1] - o[1]) * (b[0] - o[0])
+
+    lower: list = []
+    for p in pts:
+        while len(lower) >= 2 and cross(lower[-2], lower[-1], p) <= 0:
+            lower.pop()
+        lower.append(p)
+    upper: list = []
+    for p in reversed(pts):
+        while len(upper) >= 2 and cross(upper[-2], upper[-1], p) <= 0:
+            upper.pop()
+        upper.append(p)
+    return np.array(lower[:-1] + upper[:-1])
+
+
+def _support(ax, xy, s, kind, normal, name):
+    """A support symbol: a wedge for a pinned support, a wedge on two wheels for a roller, a hatched
+    block for a fixed one; drawn on the side the support pushes from."""
+    from matplotlib.patches import Circle, Polygon, Rectangle
+
+    n = np.array(normal if normal is not None else (0.0, 1.0), float)
+    n = n / (np.hypot(*n) or 1.0)
+    t = np.array([-n[1], n[0]])
+    col = "#34495e"
+    if kind == "fixed":
+        ang = math.degrees(math.atan2(n[1], n[0])) - 90
+        base = xy - n * 0.6 * s - t * 1.1 * s
+        ax.add_patch(Rectangle(base, 2.2 * s, 0.6 * s, angle=ang, facecolor="#cfd6dd", edgecolor=col,
+                               hatch="////", lw=1.0, zorder=3))
+    else:
+        base = xy - n * 1.3 * s
+        tri = np.array([xy, base + t * 0.8 * s, base - t * 0.8 * s])
+        ax.add_patch(Polygon(tri, closed=True, facecolor="#cfd6dd", edgecolor=col, lw=1.2, zorder=3))
+        ground = base
+        if kind == "roller":
+            r = 0.22 * s
+            for off in (-0.45, 0.45):
+                ax.add_patch(Circle(base + t * off * s - n * r, r, facecolor="white", edgecolor=col, lw=1.0,
+                                    zorder=3))
+            ground = base - n * 2 * r
+        g0, g1 = ground + t * 1.2 * s, ground - t * 1.2 * s
+        ax.plot([g0[0], g1[0]], [g0[1], g1[1]], color=col, lw=1.6, zorder=3)
+        for q in np.linspace(-1.0, 1.0, 6):
+            a = ground + t * q * s
+            b = a - n * 0.35 * s - t * 0.3 * s
+            ax.plot([a[0], b[0]], [a[1], b[1]], color=col, lw=0.8, zorder=3)
+    lab = xy - n * 2.4 * s
+    ax.annotate(f"{name} ({kind})", lab, ha="center", va="center", fontsize=8, color=col, zorder=6)
+
+
+# ------------------------------------------------------------------------------------------------ lug
+def governing_plate_row(results) -> int | None:
+    """The plate row with the highest utilization (the governing lug), or None if no plate is checked."""
+    c = results.columns
+    for i in results.order:
+        if c["part"][int(i)] != "pin":
+            return int(i)
+    return None
+
+
+def _plate_index(pin, part: str) -> int:
+    from ..checks import _part_names
+
+    return _part_names(pin).index(part)
+
+
+def lug_figure(results, row: int) -> bytes:
+    """A sketch of one lug plate (the governing one) along the real direction of its force: the outline,
+    the hole and the pin in it, the force, the failure planes and the distances the checks use."""
+    with _Styled():
+        return _lug(results, row)
+
+
+def _lug(results, row: int) -> bytes:
+    from matplotlib.patches import Arc, Circle, FancyArrowPatch, Polygon
+
+    c = results.columns
+    units = units_of(results)
+    lu, fu = unit_of("length", units), unit_of("force", units)
+    pname, part, case = c["pin"][row], c["part"][row], c["case"][row]
+    pin = results.job.pins[pname]
+    k = _plate_index(pin, part)
+    plate = pin.stack[k]
+    j = results.solution.cases.index(case)
+    F = results.stacks[pname].plate_force[j, k]
+    f = float(np.hypot(*F))
+    th = math.atan2(F[1], F[0]) if f > 0 else math.pi / 2
+    rot = np.array([[math.cos(th), -math.sin(th)], [math.sin(th), math.cos(th)]])
+    L = lambda v: convert(v, "length", units)  # noqa: E731
+
+    d, d0, w, e, t = pin.diameter, plate.hole, plate.width, plate.end, plate.thickness
+    back = max(1.6 * w, 2.2 * e)
+    # outline in lug axes: x along the force (toward the end), y across
+    if plate.shape == "round":
+        phi = np.linspace(-math.pi / 2, math.pi / 2, 91)
+        cap = np.column_stack([e * np.cos(phi), (w / 2) * np.sin(phi)])
+    else:
+        cap = np.array([[0, -w / 2], [e, -w / 2], [e, w / 2], [0, w / 2]])
+    outline = np.vstack([[-back, -w / 2], cap, [-back, w / 2]])
+
+    def g(xy):
+        return L(np.asarray(xy, float) @ rot.T)
+
+    allp = g(np.vstack([outline, [[e + 2.4 * d0, 0], [e + 1.5 * d0, 0.6 * w], [e + 1.5 * d0, -0.6 * w]]]))
+    lo, hi = allp.min(axis=0), allp.max(axis=0)
+    fig, ax = _drawing(_size(*(hi - lo), legend=2.8), legend=2.8)
+    ax.add_patch(Polygon(g(outline), closed=False, facecolor="#d6dde4", edgecolor=BODY, lw=1.5, zorder=1))
+    ax.plot(*g([[-back, -w / 2], [-back, w / 2]]).T, color=BODY, lw=1.0, ls=(0, (6, 3)), zorder=1)
+    ax.add_patch(Circle(g([0, 0]), L(d0 / 2), facecolor="white", edgecolor=BODY, lw=1.2, zorder=2))
+    # the pin bears on the hole's edge on the force side
+    ax.add_patch(Circle(g([(d0 - d) / 2, 0]), L(d / 2), facecolor="#f3e7c4", edgecolor="#8a6d1d", lw=1.0,
+                        zorder=3, alpha=0.9))
+    red = BANDS[-1][1]
+    # net section across the hole
+    for sgn in (-1, 1):
+        ax.plot(*g([[0, sgn * d0 / 2], [0, sgn * w / 2]]).T, color=red, lw=2.4, zorder=4,
+                label="net section across the hole" if sgn == 1 else None)
+    # shear-out planes beside the hole, along the force, to the end
+    yk = 0.35 * d0
+    for sgn in (-1, 1):
+        x0 = math.sqrt((d0 / 2) ** 2 - yk**2)
+        x1 = e * math.sqrt(max(1 - (yk / (w / 2)) ** 2, 0.0)) if plate.shape == "round" else e
+        ax.plot(*g([[x0, sgn * yk], [x1, sgn * yk]]).T, color="#1f5fa8", lw=2.4, ls=(0, (4, 2)), zorder=4,
+                label="shear-out planes beyond the hole" if sgn == 1 else None)
+    # bearing zone on the hole's edge
+    ax.add_patch(Arc(g([0, 0]), L(d0) * 1.0, L(d0) * 1.0, theta1=math.degrees(th) - 60,
+                     theta2=math.degrees(th) + 60, color="#e06a1b", lw=4, zorder=5, label="bearing on the hole"))
+    # force the plate receives from the pin
+    a0, a1 = g([e + 0.25 * d0, 0]), g([e + 1.5 * d0, 0])
+    ax.add_patch(FancyArrowPatch(a0, a1, arrowstyle="-|>,head_length=9,head_width=5", lw=2.6, color=LOAD,
+                                 zorder=6))
+    ux, uy = math.cos(th), math.sin(th)
+    mid = (np.asarray(a0) + np.asarray(a1)) / 2
+    ax.annotate(f"F = {fmt(convert(f, 'force', units))} {fu}\nat {math.degrees(th):.1f}°", mid,
+                xytext=(-14 * uy, 14 * ux) if ux >= -1e-9 else (14 * uy, -14 * ux), textcoords="offset points",
+                fontsize=8.5, fontweight="bold", zorder=7, ha="center", va="center")
+    # distances the checks use
+    a_edge = e - d0 / 2
+    c_edge = w / 2 - d0 / 2
+    _dim(ax, g([d0 / 2, -0.08 * w]), g([e, -0.08 * w]), f"a = {fmt(L(a_edge))}")
+    _dim(ax, g([-0.5 * d0 - 0.25 * w, d0 / 2]), g([-0.5 * d0 - 0.25 * w, w / 2]), f"c = {fmt(L(c_edge))}")
+    _dim(ax, g([-0.8 * back, -w / 2]), g([-0.8 * back, w / 2]), f"w = {fmt(L(w))}")
+    fig.legend(loc="upper right", fontsize=8, frameon=False)
+    m = plate.material
+    info = (f"pin {pname}, plate '{part}', case '{case}'\n"
+            f"t = {fmt(L(t))} {lu}, hole d0 = {fmt(L(d0))} {lu}\n"
+            f"pin d = {fmt(L(d))} {lu}, end e = {fmt(L(e))} {lu} ({plate.shape})\n"
+            f"{m.name if m else '-'}\n"
+            f"lengths in {lu}; drawn along the\nreal direction of the force\n"
+            f"F: the force the pin puts on the plate")
+    fig.text(1 - 2.7 / fig.get_figwidth(), 0.04, info, fontsize=8, va="bottom", ha="left")
+    pad = 0.12 * float(max(hi - lo))
+    ax.set_xlim(lo[0] - pad, hi[0] + pad)
+    ax.set_ylim(lo[1] - pad, hi[1] + pad)
+    ax.set_xlabel(f"x [{lu}]")
+    ax.set_ylabel(f"y [{lu}]")
+    ax.set_title(f"Governing lug: {pname} {part}, {c['check'][row]} (u = {c['utilization'][row]:.3f})")
+    return _png(fig)
+
+
+def _dim(ax, p0, p1, text):
+    from matplotlib.patches import FancyArrowPatch
+
+    ax.add_patch(FancyArrowPatch(p0, p1, arrowstyle="<|-|>,head_length=4,head_width=2", lw=0.9,
+                                 color="#333333", zorder=6, shrinkA=0, shrinkB=0))
+    mid = (np.asarray(p0) + np.asarray(p1)) / 2
+    ax.annotate(text, mid, xytext=(3, 3), textcoords="offset points", fontsize=8, zorder=7,
+                bbox={"boxstyle": "round,pad=0.15", "fc": "white", "ec": "none", "alpha": 0.8})
+
+
+# ----------------------------------------------------------------------------------------------- bars
+def governing_by_part(results) -> list[int]:
+    """For each (pin, part), its row of highest utilization; sorted highest first."""
+    c = results.columns
+    u = c["utilization"]
+    best: dict[tuple[str, str], int] = {}
+    for i in range(len(results)):
+        key = (c["pin"][i], c["part"][i])
+        if key not in best or u[i] > u[best[key]]:
+            best[key] = i
+    return sorted(best.values(), key=lambda i: (-u[i], i))
+
+
+def bars_figure(results) -> bytes:
+    """Utilization of every pin and plate (its governing check and case), highest first."""
+    with _Styled():
+        return _bars(results)
+
+
+def _bars(results) -> bytes:
+    c = results.columns
+    rows = governing_by_part(results)
+    n = len(rows)
+    fig = _figure(8.0, 1.2 + 0.28 * max(n, 1))
+    ax = fig.subplots()
+    u = np.array([float(c["utilization"][i]) for i in rows])
+    labels = [f"{c['pin'][i]} · {c['part'][i]}" for i in rows]
+    y = np.arange(n)[::-1]
+    shown = np.minimum(u, 1.5)
+    ax.barh(y, shown, color=[band_colour(x) for x in u], edgecolor="#333333", lw=0.5, height=0.7)
+    for yy, i, uu, sh in zip(y, rows, u, shown, strict=True):
+        ax.text(sh + 0.01, yy, f"{uu:.3f}  {c['check'][i]}, '{c['case'][i]}'", va="center", fontsize=7.5)
+    ax.axvline(1.0, color="#b3152c", lw=1.2, ls="--")
+    ax.set_yticks(y, labels, fontsize=8)
+    top = max(1.0, float(shown.max(initial=0.0)))
+    ax.set_xlim(0, top * 1.55)
+    ax.set_xlabel("utilization = demand / capacity (1.00 = limit)")
+    ax.set_title("Utilization of every pin and plate: its governing check and case")
+    ax.legend(handles=_legend_handles(float(u.max(initial=0.0))), loc="lower right", fontsize=7.5, frameon=True)
+    ax.grid(True, axis="x", color="#e5e5e5", lw=0.6)
+    return _png(fig)
+
+
+def all_figure_captions(results) -> dict[str, str]:
+    """The pictures the report has for these results: key -> caption (the frame, the governing lug, the
+    utilization chart)."""
+    out = {"frame": "The frame in the governing case; each pin coloured by the highest utilization of the pin "
+                    "and its plates"}
+    r = governing_plate_row(results)
+    if r is not None:
+        c = results.columns
+        out["lug"] = (f"The governing lug, pin {c['pin'][r]} plate '{c['part'][r]}', drawn along the direction "
+                      f"of its force in case '{c['case'][r]}', with its failure planes")
+    if len(results):
+        out["utilization"] = "Utilization of every pin and plate (its governing check and case)"
+    return out
+
+
+def all_figures(results, progress=None) -> dict[str, tuple[str, bytes]]:
+    """Every picture of the report: key -> (caption, PNG bytes)."""
+    make = {"frame": lambda: frame_figure(results),
+            "lug": lambda: lug_figure(results, governing_plate_row(results)),
+            "utilization": lambda: bars_figure(results)}
+    out: dict[str, tuple[str, bytes]] = {}
+    for key, caption in all_figure_captions(results).items():
+        out[key] = (caption, make[key]())
+        if progress is not None:
+            progress.step(f"picture: {key}")
+    return out
