@@ -39,14 +39,19 @@ def atomic_write(path: str, data: bytes | str) -> None:
         raise
 
 
-def write_files(files: list[tuple[str, bytes | str]], protect=()) -> None:
-    """Write every (path, data) or none: refuse any path that is one of ``protect`` (the job file, a
-    forces file); on a failure remove the files of this call already written."""
-    for path, _ in files:
+def refuse_inputs(paths, protect=()) -> None:
+    """OSError if any of ``paths`` is one of the files in ``protect`` (the job file, a forces file)."""
+    for path in paths:
         real = os.path.realpath(path)
         for q in protect:
             if q and _same(real, q):
                 raise OSError(f"refusing to overwrite the input file {q}")
+
+
+def write_files(files: list[tuple[str, bytes | str]], protect=()) -> None:
+    """Write every (path, data) or none: refuse any path that is one of ``protect`` (the job file, a
+    forces file); on a failure remove the files of this call already written."""
+    refuse_inputs([p for p, _ in files], protect)
     written: list[str] = []
     try:
         for path, data in files:
@@ -71,14 +76,17 @@ def write_report(results, fmt: str, path: str, protect=(), date: str | None = No
     from . import render
 
     if fmt == "md":
-        from .figures import all_figures
+        from .figures import all_figure_captions, all_figures
 
+        folder = os.path.dirname(path)
+        names = picture_names(path, all_figure_captions(results))
+        refuse_inputs([path] + [os.path.join(folder, n) for n in names.values()], protect)  # before the work
         pics = all_figures(results, progress)
         names = picture_names(path, pics)
-        folder = os.path.dirname(path)
         text = render(results, "md", date=date, pictures=names, **options)
         files = [(os.path.join(folder, names[k]), png) for k, (_, png) in pics.items()] + [(path, text)]
     else:
+        refuse_inputs([path], protect)
         opts = {"date": date, "progress": progress} if fmt == "html" else {}
         files = [(path, render(results, fmt, **opts, **options))]
     write_files(files, protect)

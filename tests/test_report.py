@@ -1,0 +1,460 @@
+"""The calculation report (Markdown and HTML), its pictures, its safe writing, and the progress helper.
+
+Check values:
+- the worked expressions are evaluated here independently (plain Python arithmetic on the SI inputs
+  the row carries) and must give the demand and capacity the method computed;
+- one bearing resistance is worked by hand from EN 1993-1-8:2005 Table 3.10, Fb,Rd = 1.5 t d fy / γM0;
+- the rest are structural: every results row appears with its numbers, the HTML parses, two runs give
+  the same bytes, and a write interrupted part way leaves no file.
+"""
+
+from __future__ import annotations
+
+import base64
+import html
+import math
+import os
+import re
+import subprocess
+import sys
+from html.parser import HTMLParser
+from pathlib import Path
+
+import pytest
+
+import pinchk
+from pinchk.progress import Progress
+from pinchk.report import CAUTION, render, write_report
+from pinchk.report.common import convert, fmt, unit_of, units_of
+
+ROOT = Path(__file__).resolve().parents[1]
+DEMOS = sorted((ROOT / "examples").glob("*.toml"))
+GANTRY = ROOT / "examples" / "a_frame_gantry.toml"
+DATE = "2026-01-02"
+
+
+@pytest.fixture(scope="module")
+def gantry():
+    return pinchk.run(str(GANTRY))
+
+
+@pytest.fixture(scope="module")
+def gantry_html(gantry):
+    return render(gantry, "html", date=DATE)
+
+
+@pytest.fixture(scope="module", params=[p.name for p in DEMOS])
+def demo(request):
+    return pinchk.run(str(ROOT / "examples" / request.param))
+
+
+def expected_rows(results):
+    """Each results row as the report must print it: (pin, part, check, case, demand, capacity, unit,
+    utilization, status)."""
+    units = units_of(results)
+    out = []
+    for r in results.rows():
+        k = r["kind"]
+        out.append((r["pin"], r["part"], r["check"], r["case"], fmt(convert(r["demand"], k, units)),
+                    fmt(convert(r["capacity"], k, units)), unit_of(k, units), f"{r['utilization']:.3f}",
+                    r["status"]))
+    return out
+
+
+class _Doc(HTMLParser):
+    """Collects headings, tables (rows of cell texts), images and tag balance."""
+
+    VOID = {"meta", "img", "br", "hr", "link", "input", "col"}
+
+    def __init__(self):
+        super().__init__(convert_charrefs=True)
+        self.stack: list[str] = []
+        self.errors: list[str] = []
+        self.headings: list[tuple[str, str]] = []
+        self.tables: list[dict] = []
+        self.imgs: list[dict] = []
+        self._text: list[str] | None = None
+        self._cell: list[str] | None = None
+        self._row: list[str] | None = None
+        self._last_h4 = ""
+
+    def handle_starttag(self, tag, attrs):
+        if tag in self.VOID:
+            if tag == "img":
+                self.imgs.append(dict(attrs))
+            return
+        self.stack.append(tag)
+        if tag in ("h1", "h2", "h3", "h4"):
+            self._text = []
+        elif tag == "table":
+            self.tables.append({"h4": self._last_h4, "rows": [], "cls": dict(attrs).get("class", "")})
+        elif tag == "tr":
+            self._row = []
+        elif tag in ("td", "th"):
+            self._cell = []
+
+    def handle_endtag(self, tag):
+        if tag in self.VOID:
+            return
+        if not self.stack or self.stack[-1] != tag:
+            self.errors.append(f"</{tag}> closes <{self.stack[-1] if self.stack else None}>")
+            return
+        self.stack.pop()
+        if tag in ("h1", "h2", "h3", "h4") and self._text is not None:
+            text = " ".join("".join(self._text).split())
+            self.headings.append((tag, text))
+            if tag == "h4":
+                self._last_h4 = text
+            self._text = None
+        elif tag in ("td", "th") and self._cell is not None and self._row is not None:
+            self._row.append(" ".join("".join(self._cell).split()))
+            self._cell = None
+        elif tag == "tr" and self._row is not None:
+            self.tables[-1]["rows"].append(self._row)
+            self._row = None
+
+    def handle_data(self, data):
+        if self._text is not None:
+            self._text.append(data)
+        if self._cell is not None:
+            self._cell.append(data)
+
+
+def parse(html: str) -> _Doc:
+    d = _Doc()
+    d.feed(html)
+    d.close()
+    return d
+
+
+# ------------------------------------------------------------------------------------------- HTML
+def test_html_parses_with_its_structure(gantry_html):
+    d = parse(gantry_html)
+    assert d.errors == [] and d.stack == [], (d.errors, d.stack)
+    assert gantry_html.startswith("<!DOCTYPE html>")
+    h1 = [t for tag, t in d.headings if tag == "h1"]
+    assert h1 == ["A-frame gantry, 10 t hook at the apex (demo)"]
+    h2 = [t for tag, t in d.headings if tag == "h2"]
+    for want in ("Verdict", "Summary", "Method and factors", "Inputs", "Solved forces", "Checks", "Assumptions",
+                 "Caution", "Sign-off"):
+        assert any(want in t for t in h2), want
+    assert h2[0].endswith("Verdict") and "Summary" in h2[1]  # the verdict and the summary come first
+    assert len(d.tables) >= 10
+    # three pictures, inline as PNG: self-contained, nothing fetched
+    assert len(d.imgs) == 3
+    for img in d.imgs:
+        head, _, data = img["src"].partition(",")
+        assert head == "data:image/png;base64"
+        assert base64.b64decode(data)[:8] == b"\x89PNG\r\n\x1a\n"
+        assert img.get("alt")
+    assert "src=\"http" not in gantry_html and "<script" not in gantry_html
+
+
+def test_every_results_row_is_in_the_html_with_its_numbers(gantry, gantry_html):
+    d = parse(gantry_html)
+    got = []
+    for t in d.tables:
+        if t["cls"] != "checks":
+            continue
+        pin, _, part = t["h4"].partition(" · ")
+        header, *rows = t["rows"]
+        col = {h: k for k, h in enumerate(header)}
+        for r in rows:
+            got.append((pin, part, r[col["check"]], r[col["case"]], r[col["demand"]], r[col["capacity"]],
+                        r[col["unit"]], r[col["utilization"]], r[col["status"]]))
+    assert sorted(got) == sorted(expected_rows(gantry))
+
+
+def test_summary_sorted_with_the_governing_row_first(gantry, gantry_html):
+    d = parse(gantry_html)
+    summary = next(t for t in d.tables if t["cls"] == "summary")
+    header, *rows = summary["rows"]
+    u = [float(r[header.index("utilization")]) for r in rows]
+    assert u == sorted(u, reverse=True)
+    g = gantry.row(gantry.governing)
+    assert rows[0][1:5] == [g["pin"], g["part"], g["check"], g["case"]]
+    assert d.headings[1][1].endswith("Verdict")
+    assert gantry_html.index("PASS: all") < gantry_html.index('class="summary"')
+
+
+def test_caution_factors_and_job_block_are_in_both(gantry, gantry_html):
+    md = render(gantry, "md", date=DATE)
+    for text in (html.unescape(gantry_html), md):
+        assert CAUTION in text
+        assert gantry.edition in text
+        for key in ("number", "revision", "prepared_by", "checked_by"):
+            assert gantry.job.info[key] in text
+        assert DATE in text
+        for a in gantry.assumptions:
+            assert a in text
+    d = parse(gantry_html)
+    factors = next(t for t in d.tables if t["cls"] == "factors")
+    assert [r[:2] for r in factors["rows"][1:]] == [[k, f"{v:g}"] for k, v in gantry.factors.items()]
+    for name, value in gantry.factors.items():
+        assert f"| {name} | {value:g} |" in md
+
+
+def test_materials_with_their_sources(gantry, gantry_html):
+    for pin in gantry.job.pins.values():
+        for m in [pin.material] + [q.material for q in pin.stack]:
+            if m is not None:
+                assert m.source in html.unescape(gantry_html)
+
+
+# --------------------------------------------------------------------------------------- Markdown
+def _md_tables(md: str):
+    """(heading, header cells, rows of cells) for every pipe table under a '####' heading."""
+    out, head, header, rows = [], "", None, []
+    for line in md.splitlines() + [""]:
+        if line.startswith("#### "):
+            head = line[5:]
+        if line.startswith("|"):
+            cells = [c.strip() for c in re.split(r"(?<!\\)\|", line.strip())[1:-1]]
+            if header is None:
+                header = cells
+            elif not set("".join(cells)) <= set("-:"):
+                rows.append(cells)
+        elif header is not None:
+            out.append((head, header, rows))
+            header, rows = None, []
+    return out
+
+
+def test_every_results_row_is_in_the_markdown_with_its_numbers(demo):
+    md = render(demo, "md", date=DATE)
+    got = []
+    for head, header, rows in _md_tables(md):
+        if "demand, worked" not in header:
+            continue
+        pin, _, part = head.partition(" · ")
+        col = {h: k for k, h in enumerate(header)}
+        for r in rows:
+            status = r[col["status"]].replace("**", "")
+            got.append((pin, part, r[col["check"]], r[col["case"]], r[col["demand"]], r[col["capacity"]],
+                        r[col["unit"]], r[col["utilization"]], status))
+    assert sorted(got) == sorted(expected_rows(demo))
+    assert CAUTION in md
+    assert "![" not in md  # rendered without pictures, and it says where they go
+    assert "PNG files beside the report" in md
+
+
+def test_markdown_written_with_its_pictures_beside_it(gantry, tmp_path):
+    out = tmp_path / "calc.md"
+    paths = write_report(gantry, "md", str(out), date=DATE)
+    names = sorted(Path(p).name for p in paths)
+    assert names == ["calc.frame.png", "calc.lug.png", "calc.md", "calc.utilization.png"]
+    md = out.read_text(encoding="utf-8")
+    for n in [n for n in names if n.endswith(".png")]:
+        assert f"]({n})" in md
+        assert (tmp_path / n).read_bytes()[:4] == b"\x89PNG"
+    assert sorted(os.listdir(tmp_path)) == names  # no temporary file left
+
+
+# --------------------------------------------------------------------------------- worked values
+_PH = re.compile(r"\{([^{}]+)\}")
+
+
+def _evaluate(expr: str, terms) -> float:
+    """The value of a worked expression, by plain arithmetic on the row's SI inputs."""
+    _, eq, rhs = expr.partition(" = ")
+    rhs = rhs if eq else expr
+    vals = {s: v for s, _, v in terms}
+    py = _PH.sub(lambda m: f"({vals[m.group(1)]!r})", rhs)
+    for a, b in (("×", "*"), ("−", "-"), ("√", "sqrt"), ("π", "pi"), ("²", "**2"), ("³", "**3")):
+        py = py.replace(a, b)
+    py = re.sub(r"(\bpi|\))\s+\(", r"\1 * (", py)  # "π (d)²": a product written side by side
+    return float(eval(py, {"__builtins__": {}}, {"sqrt": math.sqrt, "pi": math.pi, "min": min}))  # noqa: S307
+
+
+def _variants():
+    """Every demo job with every design variant of its method (ASD and LRFD for AISC 360)."""
+    from dataclasses import replace
+
+    from pinchk.methods import METHODS
+
+    out = []
+    for p in DEMOS:
+        job = pinchk.load_job(str(p))
+        for v in METHODS[job.method.name].VARIANTS or (job.method.variant,):
+            out.append(pytest.param(replace(job, method=replace(job.method, variant=v)), id=f"{p.stem}-{v}"))
+    return out
+
+
+@pytest.mark.parametrize("job", _variants())
+def test_worked_expressions_give_the_checked_figures(job):
+    res = pinchk.run(job)
+    c = res.columns
+    n_worked = 0
+    for i in range(len(res)):
+        for key, col in (("worked_demand", "demand"), ("worked_capacity", "capacity")):
+            expr = c[key][i]
+            assert expr, f"{c['check'][i]}: the method gives no worked {col}"
+            n_worked += 1
+            assert _evaluate(expr, c["terms"][i]) == pytest.approx(float(c[col][i]), rel=1e-9), (c["check"][i], expr)
+    assert n_worked == 2 * len(res)
+
+
+def test_bearing_worked_by_hand(gantry, gantry_html):
+    # EN 1993-1-8:2005 Table 3.10, Fb,Rd = 1.5 t d fy / γM0 for the demo's tie plate at PL: t = 12 mm,
+    # d = 30 mm, fy = 355 MPa (S355, t <= 16 mm, EN 10025-2), γM0 = 1.0: 1.5*12*30*355/1.0 N = 191.7 kN
+    assert "Fb,Rd = 1.5 × 12.00 mm × 30.00 mm × 355.0 MPa / 1.000 = 191.7 kN" in gantry_html
+
+
+# ----------------------------------------------------------------------------- same bytes, dates
+def test_same_inputs_give_the_same_bytes(gantry):
+    assert render(gantry, "html", date=DATE) == render(gantry, "html", date=DATE)
+    assert render(gantry, "md", date=DATE) == render(gantry, "md", date=DATE)
+    again = pinchk.run(str(GANTRY))
+    assert render(again, "html", date=DATE) == render(gantry, "html", date=DATE)
+
+
+def test_same_bytes_in_a_fresh_process(gantry_html, tmp_path):
+    code = ("import sys, pinchk; from pinchk.report import render; "
+            f"sys.stdout.buffer.write(render(pinchk.run({str(GANTRY)!r}), 'html', date={DATE!r}).encode())")
+    out = subprocess.run([sys.executable, "-c", code], cwd=ROOT, capture_output=True, check=True)
+    assert out.stdout.decode() == gantry_html
+
+
+def test_the_date_the_user_fixes(gantry, monkeypatch):
+    monkeypatch.setenv("SOURCE_DATE_EPOCH", "1767225600")  # 2026-01-01T00:00:00Z
+    md = render(gantry, "md")
+    assert "| **Date** | 2026-01-01 |" in md
+    assert "| **Date** | 1999-12-31 |" in render(gantry, "md", date="1999-12-31")
+
+
+# ------------------------------------------------------------------------------------ safe writes
+class _Boom(RuntimeError):
+    pass
+
+
+def _half_then_fail(real_fdopen):
+    class Half:
+        def __init__(self, fh):
+            self.fh = fh
+
+        def __enter__(self):
+            return self
+
+        def __exit__(self, *exc):
+            self.fh.close()
+            return False
+
+        def write(self, data):
+            self.fh.write(data[: len(data) // 2])
+            self.fh.flush()
+            raise _Boom("disk gone mid-write")
+
+    return lambda fd, *a, **k: Half(real_fdopen(fd, *a, **k))
+
+
+@pytest.mark.parametrize("fmt_", ["html", "md"])
+def test_a_write_interrupted_mid_file_leaves_no_file(gantry, tmp_path, monkeypatch, fmt_):
+    import pinchk.report.output as output
+
+    monkeypatch.setattr(output.os, "fdopen", _half_then_fail(os.fdopen))
+    with pytest.raises(_Boom):
+        write_report(gantry, fmt_, str(tmp_path / f"calc.{fmt_}"), date=DATE)
+    assert os.listdir(tmp_path) == []
+
+
+def test_a_failure_on_the_last_file_removes_the_pictures_already_written(gantry, tmp_path, monkeypatch):
+    import pinchk.report.output as output
+
+    real = output.atomic_write
+
+    def fail_on_md(path, data):
+        if str(path).endswith(".md"):
+            raise _Boom("interrupted")
+        real(path, data)
+
+    monkeypatch.setattr(output, "atomic_write", fail_on_md)
+    with pytest.raises(_Boom):
+        write_report(gantry, "md", str(tmp_path / "calc.md"), date=DATE)
+    assert os.listdir(tmp_path) == []
+
+
+def test_a_failure_while_drawing_leaves_no_file_and_keeps_the_old_one(gantry, tmp_path, monkeypatch):
+    import pinchk.report.figures as figures
+
+    out = tmp_path / "calc.html"
+    out.write_text("previous report", encoding="utf-8")
+
+    def broken(results):
+        raise _Boom("drawing failed")
+
+    monkeypatch.setattr(figures, "bars_figure", broken)
+    with pytest.raises(_Boom):
+        write_report(gantry, "html", str(out), date=DATE)
+    assert out.read_text(encoding="utf-8") == "previous report"
+    assert os.listdir(tmp_path) == ["calc.html"]
+
+
+def test_cli_never_writes_over_the_job_file(tmp_path):
+    job = tmp_path / "job.toml"
+    job.write_bytes(GANTRY.read_bytes())
+    for fmt_, target in (("html", job), ("md", job), ("md", tmp_path / "job.md")):
+        # for md the job file could also be hit through a picture name: job.md -> job.frame.png is safe,
+        # the job file itself is refused
+        r = subprocess.run([sys.executable, "-m", "pinchk", "run", str(job), "--format", fmt_, "--output",
+                            str(target)], cwd=ROOT, capture_output=True, text=True)
+        if target == job:
+            assert r.returncode == 2 and "refusing to overwrite" in r.stderr
+            assert "Traceback" not in r.stderr
+        else:
+            assert r.returncode == 0, r.stderr
+    assert job.read_bytes() == GANTRY.read_bytes()
+    assert sorted(os.listdir(tmp_path)) == ["job.frame.png", "job.lug.png", "job.md", "job.toml",
+                                            "job.utilization.png"]
+
+
+def test_cli_html_report(tmp_path):
+    out = tmp_path / "calc.html"
+    r = subprocess.run([sys.executable, "-m", "pinchk", "run", str(GANTRY), "--format", "html", "--output",
+                        str(out)], cwd=ROOT, capture_output=True, text=True)
+    assert r.returncode == 0, r.stderr
+    assert r.stderr == ""  # stderr is no terminal here: no progress
+    d = parse(out.read_text(encoding="utf-8"))
+    assert d.errors == [] and len(d.imgs) == 3
+
+
+def test_other_views_do_not_import_matplotlib():
+    code = (f"import sys, pinchk; from pinchk.report import render; r = pinchk.run({str(GANTRY)!r}); "
+            "[render(r, f) for f in ('table', 'json', 'csv')]; print('matplotlib' in sys.modules, 'jinja2' in sys.modules)")
+    out = subprocess.run([sys.executable, "-c", code], cwd=ROOT, capture_output=True, text=True, check=True)
+    assert out.stdout.split() == ["False", "False"]
+
+
+# --------------------------------------------------------------------------------------- progress
+class _Stream:
+    def __init__(self, tty: bool):
+        self.tty, self.text = tty, ""
+
+    def isatty(self):
+        return self.tty
+
+    def write(self, s):
+        self.text += s
+
+    def flush(self):
+        pass
+
+
+class _Clock:
+    def __init__(self):
+        self.t = 0.0
+
+    def __call__(self):
+        return self.t
+
+
+@pytest.mark.parametrize("tty, seconds, shown", [(True, 0.5, False), (True, 10.0, True), (False, 10.0, False)])
+def test_progress_only_for_long_work_on_a_terminal(tty, seconds, shown):
+    s, clock = _Stream(tty), _Clock()
+    with Progress(total=5, what="jobs", stream=s, clock=clock, after=2.0) as bar:
+        for k in range(5):
+            clock.t = seconds * (k + 1) / 5
+            bar.step(f"job {k}")
+    assert ("5/5 jobs" in s.text or "4/5 jobs" in s.text) == shown
+    assert bool(s.text) == shown
+    if shown:
+        assert s.text.endswith("\r")  # the line is cleared at the end
