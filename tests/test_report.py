@@ -419,7 +419,8 @@ def test_cli_html_report(tmp_path):
 
 def test_other_views_do_not_import_matplotlib():
     code = (f"import sys, pinchk; from pinchk.report import render; r = pinchk.run({str(GANTRY)!r}); "
-            "[render(r, f) for f in ('table', 'json', 'csv')]; print('matplotlib' in sys.modules, 'jinja2' in sys.modules)")
+            "[render(r, f) for f in ('table', 'json', 'csv')]; "
+            "print('matplotlib' in sys.modules, 'jinja2' in sys.modules)")
     out = subprocess.run([sys.executable, "-c", code], cwd=ROOT, capture_output=True, text=True, check=True)
     assert out.stdout.split() == ["False", "False"]
 
@@ -458,3 +459,38 @@ def test_progress_only_for_long_work_on_a_terminal(tty, seconds, shown):
     assert bool(s.text) == shown
     if shown:
         assert s.text.endswith("\r")  # the line is cleared at the end
+
+
+# ---------------------------------------------------------------------------- failing and empty jobs
+def _scaled(job, k: float):
+    from dataclasses import replace
+
+    return replace(job, loads=tuple(replace(ld, force=(ld.force[0] * k, ld.force[1] * k)) for ld in job.loads))
+
+
+def test_a_failing_job_reads_as_failing(tmp_path):
+    res = pinchk.run(_scaled(pinchk.load_job(str(GANTRY)), 12.0))
+    assert not res.passed
+    text = render(res, "html", date=DATE)
+    d = parse(text)
+    assert d.errors == [] and len(d.imgs) == 3
+    assert 'class="verdict fail"' in text and "FAIL:" in text
+    n_fail = sum(1 for r in res.rows() if r["status"] == "FAIL")
+    cells = [r for t in d.tables if t["cls"] == "checks" for r in t["rows"] if r[-1] == "FAIL"]
+    assert len(cells) == n_fail > 0
+    md = render(res, "md", date=DATE)
+    assert md.count("| **FAIL** |") == n_fail
+
+
+def test_a_job_with_nothing_to_check_still_reports():
+    from dataclasses import replace
+
+    job = pinchk.load_job(str(GANTRY))
+    job = replace(job, pins={k: replace(p, stack=()) for k, p in job.pins.items()})
+    res = pinchk.run(job)
+    assert len(res) == 0
+    text = render(res, "html", date=DATE)
+    d = parse(text)
+    assert d.errors == [] and len(d.imgs) == 1  # the frame only: no lug, no utilizations
+    assert "NO CHECKS" in text
+    assert "Not checked (no stack of plates given): pins P_apex" in text

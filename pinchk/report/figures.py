@@ -158,9 +158,19 @@ def _frame(results) -> bytes:
             order = np.lexsort((xy[:, 1], xy[:, 0]))
             ax.plot(*k_len(xy[order]).T, color=BODY, lw=7, solid_capstyle="round", alpha=0.45, zorder=1)
             ax.plot(*k_len(xy[order]).T, color=BODY, lw=1.2, zorder=1)
-        c = k_len(xy.mean(axis=0))
-        ax.annotate(name, c, xytext=(6, -12), textcoords="offset points", color=BODY, fontsize=8,
-                    style="italic", zorder=6)
+        # the name beside the middle of the body's longest edge, clear of the pins at its points
+        closed = len(xy) >= 3 and _area(xy) > 1e-6 * span**2
+        ring = _hull(xy) if closed else xy[np.lexsort((xy[:, 1], xy[:, 0]))]
+        if len(ring) >= 2:
+            seg = np.diff(np.vstack([ring, ring[:1]]) if closed else ring, axis=0)
+            k = int(np.argmax(np.hypot(seg[:, 0], seg[:, 1])))
+            mid = ring[k] + seg[k] / 2
+            nrm = np.array([seg[k][1], -seg[k][0]]) / (float(np.hypot(*seg[k])) or 1.0)
+        else:
+            mid, nrm = xy[0], np.array([0.0, -1.0])
+        ax.annotate(name, k_len(mid), xytext=tuple(10 * nrm), textcoords="offset points", color=BODY, fontsize=8,
+                    style="italic", zorder=6, ha="left" if nrm[0] > 0.3 else ("right" if nrm[0] < -0.3 else "center"),
+                    va="center")
 
     for name, lk in job.links.items():
         a, b = (k_len(np.array(e.xy)) for e in lk.ends)
@@ -170,7 +180,7 @@ def _frame(results) -> bytes:
         label = name
         if t is not None:
             label = f"{name}: {'T' if t[j] >= 0 else 'C'} {fmt(abs(convert(t[j], 'force', units)))} {fu}"
-        ax.annotate(label, (a + b) / 2, xytext=(0, -11), textcoords="offset points", ha="center", fontsize=8,
+        ax.annotate(label, (a + b) / 2, xytext=(0, -13), textcoords="offset points", ha="center", fontsize=8,
                     color=LINK, zorder=6)
 
     for name, sup in job.supports.items():
@@ -211,8 +221,11 @@ def _frame(results) -> bytes:
             end = start + L * np.array([fx, fy]) / f
             ax.add_patch(FancyArrowPatch(start, end, arrowstyle="-|>,head_length=5,head_width=3", lw=1.4,
                                          color=PIN_FORCE, zorder=7))
-            ax.annotate(f"{fmt(convert(f, 'force', units), 3)}", end, xytext=(2, -9), textcoords="offset points",
-                        fontsize=7, color=PIN_FORCE, zorder=8)
+            ux, uy = fx / f, fy / f
+            ax.annotate(f"{fmt(convert(f, 'force', units), 3)}", end, xytext=(7 * ux, 7 * uy),
+                        textcoords="offset points", fontsize=7, color=PIN_FORCE, zorder=8,
+                        ha="left" if ux > 0.3 else ("right" if ux < -0.3 else "center"),
+                        va="bottom" if uy > 0.3 else ("top" if uy < -0.3 else "center"))
 
     for pname, pin in job.pins.items():
         xy = k_len(np.array(pin.xy))
