@@ -252,6 +252,7 @@ def test_markdown_written_with_its_pictures_beside_it(gantry, tmp_path):
 
 # --------------------------------------------------------------------------------- worked values
 _PH = re.compile(r"\{([^{}]+)\}")
+WORKED_REQUIRED = {"EN 1993-1-8", "AISC 360-16"}  # methods whose every check shows its worked lines
 
 
 def _evaluate(expr: str, terms) -> float:
@@ -288,10 +289,13 @@ def test_worked_expressions_give_the_checked_figures(job):
     for i in range(len(res)):
         for key, col in (("worked_demand", "demand"), ("worked_capacity", "capacity")):
             expr = c[key][i]
+            if not expr and res.method not in WORKED_REQUIRED:
+                continue  # a method without worked lines is reported with formula, demand and capacity only
             assert expr, f"{c['check'][i]}: the method gives no worked {col}"
             n_worked += 1
             assert _evaluate(expr, c["terms"][i]) == pytest.approx(float(c[col][i]), rel=1e-9), (c["check"][i], expr)
-    assert n_worked == 2 * len(res)
+    if res.method in WORKED_REQUIRED:
+        assert n_worked == 2 * len(res)
 
 
 def test_bearing_worked_by_hand(gantry, gantry_html):

@@ -466,7 +466,7 @@ def _bars(results) -> bytes:
     c = results.columns
     rows = governing_by_part(results)
     n = len(rows)
-    fig = _figure(8.0, 1.2 + 0.28 * max(n, 1))
+    fig = _figure(8.0, 1.8 + 0.28 * max(n, 1))
     ax = fig.subplots()
     u = np.array([float(c["utilization"][i]) for i in rows])
     labels = [f"{c['pin'][i]} · {c['part'][i]}" for i in rows]
@@ -474,14 +474,16 @@ def _bars(results) -> bytes:
     shown = np.minimum(u, 1.5)
     ax.barh(y, shown, color=[band_colour(x) for x in u], edgecolor="#333333", lw=0.5, height=0.7)
     for yy, i, uu, sh in zip(y, rows, u, shown, strict=True):
-        ax.text(sh + 0.01, yy, f"{uu:.3f}  {c['check'][i]}, '{c['case'][i]}'", va="center", fontsize=7.5)
+        ax.text(sh + 0.01, yy, f"{uu:.3f}  {c['check'][i]}, '{c['case'][i]}'", va="center", fontsize=7.5,
+                bbox={"boxstyle": "square,pad=0.1", "fc": "white", "ec": "none", "alpha": 0.8})
     ax.axvline(1.0, color="#b3152c", lw=1.2, ls="--")
     ax.set_yticks(y, labels, fontsize=8)
     top = max(1.0, float(shown.max(initial=0.0)))
     ax.set_xlim(0, top * 1.55)
     ax.set_xlabel("utilization = demand / capacity (1.00 = limit)")
     ax.set_title("Utilization of every pin and plate: its governing check and case")
-    ax.legend(handles=_legend_handles(float(u.max(initial=0.0))), loc="lower right", fontsize=7.5, frameon=True)
+    fig.legend(handles=_legend_handles(float(u.max(initial=0.0))), loc="outside lower center", ncol=3, fontsize=7.5,
+               frameon=False)
     ax.grid(True, axis="x", color="#e5e5e5", lw=0.6)
     return _png(fig)
 
