@@ -16,13 +16,14 @@ def load_job(path):
 
 
 def run(job):
-    """Solve the frame of ``job`` (a Job or a path to a job file) and check every pin: Results."""
+    """Solve the frame of ``job`` (a Job or a path to a job file), or read its forces file, and check
+    every pin: Results."""
     from .checks import run_checks
-    from .frame import solve
+    from .forcesfile import joint_forces
 
     if not hasattr(job, "pins"):
         job = load_job(job)
-    return run_checks(job, solve(job))
+    return run_checks(job, joint_forces(job))
 
 
 def __getattr__(name):

@@ -34,6 +34,9 @@ def _parser() -> argparse.ArgumentParser:
     r.add_argument("--all-cases", action="store_true",
                    help="table: list every load case of every check, not only the governing one")
     r.add_argument("--no-forces", action="store_true", help="table: leave out the joint-force tables")
+    r.add_argument("--forces-out", metavar="FILE",
+                   help="also write the joint forces to FILE as a forces file (.csv or .json), which a job "
+                        "can read back through [forces] file")
     sub.add_parser("methods", help="list the design methods, their factors and defaults")
     sub.add_parser("materials", help="list the bundled materials and their sources")
     return p
@@ -61,25 +64,45 @@ def _cmd_run(a) -> int:
     from . import run
     from .report import render
 
+    if a.forces_out:
+        from .errors import InputError, Problem
+        from .forcesfile import format_of
+
+        format_of(a.forces_out)  # a wrong extension is an input error before any work
+        if a.output and os.path.realpath(a.output) == os.path.realpath(a.forces_out):
+            raise InputError(Problem(a.forces_out, "", "--forces-out", "is the same file as --output; name two files"))
     results = run(a.job)
     opts = {"all_cases": a.all_cases, "forces": not a.no_forces} if a.format == "table" else {}
-    if a.output and a.format in ("md", "html"):  # the calculation report, written with its pictures
+    protect = [a.job] + ([results.job.forces.path] if results.job.forces is not None else [])
+    report_file = a.output and a.format in ("md", "html")  # the calculation report, written with its pictures
+    text = None if report_file else render(results, a.format, **opts)
+    if a.forces_out:
+        from .forcesfile import render_forces
+        from .units import UNIT_SYSTEMS
+
+        _write(a.forces_out, render_forces(results.solution, format_of(a.forces_out),
+                                           UNIT_SYSTEMS[results.job.output_units]["force"], results.job.title),
+               protect + ([a.output] if a.output else []))
+    if report_file:
         from .progress import Progress
         from .report import write_report
 
         with Progress(what="pictures") as bar:
-            write_report(results, a.format, a.output, protect=[a.job], progress=bar)
-        text = None
-    else:
-        text = render(results, a.format, **opts)
+            write_report(results, a.format, a.output, protect=protect + ([a.forces_out] if a.forces_out else []),
+                         progress=bar)
+    elif a.output:
+        _write(a.output, text, protect + ([a.forces_out] if a.forces_out else []))
     if a.output:
-        if text is not None:
-            _write(a.output, text, [a.job])
         from .report.common import verdict
 
         print(f"{verdict(results)}\nwrote {a.output}\ncaution: {CAUTION_SHORT}")
     else:
         sys.stdout.write(text)
+    if a.output or a.format != "table":  # the table view prints its warnings itself
+        for w in getattr(results.solution, "warnings", ()):
+            print(f"warning: {w}", file=sys.stderr)
+    if a.forces_out:
+        print(f"wrote joint forces to {a.forces_out}", file=sys.stderr if not a.output else sys.stdout)
     return EXIT_PASS if results.passed else EXIT_FAIL
 
 

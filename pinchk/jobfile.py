@@ -20,7 +20,8 @@ from .units import G0, UNIT_SYSTEMS, QuantityError, check_unit, to_si
 MAX_FILE_BYTES = 4 * 1024 * 1024  # a job file is text typed by a person; anything larger is refused
 
 KEYS = {
-    "": {"job", "units", "method", "material", "body", "pin", "link", "support", "case", "load"},
+    "": {"job", "units", "method", "material", "body", "pin", "link", "support", "case", "load", "forces"},
+    "forces": {"file", "balance_tol"},
     "job": {"title", "output_units", "number", "revision", "prepared_by", "checked_by", "date", "client"},
     "units": set(UNIT_SYSTEMS["SI"]),
     "method": {"name", "design", "factors"},
@@ -193,18 +194,28 @@ def parse_job(data: dict[str, Any], path: str = "<job>", text: str = "") -> Job:
 
     method = _method(r, data)
     job_materials = _materials(r, data)
-    bodies = _bodies(r, data)
+    # a job that names a forces file needs no frame; without bodies its pins join nothing
+    from .forcesfile import attach, source_of
+
+    forces, forces_table = source_of(r, data, path)
+    frameless = forces is not None and "body" not in data
+    bodies = _bodies(r, data, required=forces is None)
     cases = _cases(r, data)
     pin_tables = r.table(data, "pin", "")
-    pins_partial = _pins_frame(r, pin_tables, bodies)
-    links = _links(r, data, bodies, pins_partial)
-    supports = _supports(r, data, bodies, pins_partial)
-    loads = _loads(r, data, bodies, pins_partial, cases)
-    pins = _pins_stack(r, pin_tables, pins_partial, links, supports, loads, job_materials)
+    pins_partial = _pins_frame(r, pin_tables, bodies) if not frameless else _pins_frameless(r, pin_tables)
+    links = _links(r, data, bodies, pins_partial) if not frameless else {}
+    supports = _supports(r, data, bodies, pins_partial, required=forces is None) if not frameless else {}
+    loads = _loads(r, data, bodies, pins_partial, cases, required=forces is None) if not frameless else []
+    pins = _pins_stack(r, pin_tables, pins_partial, links, supports, loads, job_materials, frameless)
 
+    job = Job(path=path, title=title, method=method, output_units=output_units, bodies=bodies, pins=pins,
+              links=links, supports=supports, loads=tuple(loads), cases=cases, info=info, forces=forces)
+    if forces_table is not None:
+        job, problems = attach(job, forces_table, pin_tables, not r.c.problems,
+                               lambda table: _line_of(text, table, ""))
+        r.c.problems += problems
     r.c.raise_if_any()
-    return Job(path=path, title=title, method=method, output_units=output_units, bodies=bodies, pins=pins,
-               links=links, supports=supports, loads=tuple(loads), cases=cases, info=info)
+    return job
 
 
 def _method(r: _Reader, data: dict) -> MethodChoice:
@@ -270,10 +281,10 @@ def _xy(r: _Reader, where: str, field: str, v) -> tuple[float, float] | None:
     return (out[0], out[1])
 
 
-def _bodies(r: _Reader, data: dict) -> dict[str, Body]:
+def _bodies(r: _Reader, data: dict, required: bool = True) -> dict[str, Body]:
     out: dict[str, Body] = {}
     bt = r.table(data, "body", "")
-    if not bt:
+    if not bt and required:
         r.bad("body", "", "no bodies: describe at least one [body.NAME] with its points")
     for name, t in bt.items():
         where = f"body.{name}"
@@ -371,6 +382,25 @@ def _pins_frame(r: _Reader, pt: dict, bodies: dict[str, Body]) -> dict[str, dict
     return out
 
 
+def _pins_frameless(r: _Reader, pt: dict) -> dict[str, dict]:
+    """Pins of a job without a frame (it reads a forces file): each joins nothing; its members are named
+    by its plates and by the forces file."""
+    out: dict[str, dict] = {}
+    for name, t in pt.items():
+        where = f"pin.{name}"
+        if not isinstance(t, dict):
+            r.bad(where, "", "expected a table with diameter, hole, material and [[pin.NAME.plate]]")
+            continue
+        r.name_ok(where, name)
+        r.keys(where, t, "pin")
+        if "joins" in t:
+            r.bad(where, "joins", "this job has no bodies (it reads its forces from a forces file), so a pin "
+                  "joins nothing; remove 'joins': the members at the pin are named by its plates")
+        xy = _xy(r, where, "at", t["at"]) if "at" in t else (0.0, 0.0)  # where it is, for the record only
+        out[name] = {"xy": xy or (0.0, 0.0), "bodies": ()}
+    return out
+
+
 def _links(r: _Reader, data: dict, bodies, pins) -> dict[str, Link]:
     out: dict[str, Link] = {}
     for name, t in r.table(data, "link", "").items():
@@ -397,7 +427,7 @@ def _links(r: _Reader, data: dict, bodies, pins) -> dict[str, Link]:
     return out
 
 
-def _supports(r: _Reader, data: dict, bodies, pins) -> dict[str, Support]:
+def _supports(r: _Reader, data: dict, bodies, pins, required: bool = True) -> dict[str, Support]:
     out: dict[str, Support] = {}
     at_pin: dict[str, str] = {}
     st = r.table(data, "support", "")
@@ -436,18 +466,18 @@ def _supports(r: _Reader, data: dict, bodies, pins) -> dict[str, Support]:
                 continue
             at_pin[place.pin] = name
         out[name] = Support(name, kind, place, normal)
-    if not st and bodies:
+    if not st and bodies and required:
         r.bad("support", "", "no supports: a frame needs at least one [support.NAME] to stand on")
     return out
 
 
-def _loads(r: _Reader, data: dict, bodies, pins, cases) -> list[Load]:
+def _loads(r: _Reader, data: dict, bodies, pins, cases, required: bool = True) -> list[Load]:
     out: list[Load] = []
     lt = data.get("load", [])
     if not isinstance(lt, list):
         r.bad("load", "", "expected an array of tables [[load]]")
         return out
-    if not lt:
+    if not lt and required:
         r.bad("load", "", "no loads: add at least one [[load]]")
     for i, t in enumerate(lt, start=1):
         where = f"load #{i}"
@@ -532,8 +562,9 @@ def _material(r: _Reader, where: str, field: str, name, size: float, own: dict[s
         return None
 
 
-def _pins_stack(r: _Reader, pt: dict, frame: dict, links, supports, loads, own) -> dict[str, Pin]:
-    """Second pass over pins: size, material and the stack of plates, checked against the frame."""
+def _pins_stack(r: _Reader, pt: dict, frame: dict, links, supports, loads, own, frameless=False) -> dict[str, Pin]:
+    """Second pass over pins: size, material and the stack of plates, checked against the frame (without
+    a frame, pinchk.forcesfile checks the plates' members against the forces file)."""
     at_pin: dict[str, set[str]] = {n: set(f["bodies"]) for n, f in frame.items()}
     for ln, link in links.items():
         for e in link.ends:
@@ -573,7 +604,7 @@ def _pins_stack(r: _Reader, pt: dict, frame: dict, links, supports, loads, own) 
                 continue
             r.keys(pw, p, "plate")
             member = r.text_field(pw, p, "member", required=True)
-            if member is not None and member not in at_pin[name]:
+            if member is not None and not frameless and member not in at_pin[name]:
                 r.bad(pw, "member", f"'{member}' does not meet pin {name}{suggest(member, at_pin[name])}; "
                       f"members here: {', '.join(sorted(at_pin[name]))}")
                 member = None
@@ -612,7 +643,7 @@ def _pins_stack(r: _Reader, pt: dict, frame: dict, links, supports, loads, own) 
             stack.append(Plate(member, th, gap, share, pmat, width, end, shape, ph, en_type))
         if plates_t and len(stack) == len(plates_t):
             members = [pl.member for pl in stack]
-            for m in at_pin[name]:
+            for m in at_pin[name] if not frameless else ():
                 if m not in members:
                     r.bad(where, "plate", f"member '{m}' meets pin {name} but has no plate in its stack; "
                           "every member at a checked pin needs its plate")

@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 from dataclasses import dataclass, field
+from typing import Any
 
 #: Member names with a fixed meaning in a pin's stack.
 GROUND = "ground"  # the support that ties a pin to the ground (a base bracket)
@@ -132,6 +133,16 @@ class MethodChoice:
 
 
 @dataclass(frozen=True)
+class ForcesSource:
+    """Joint forces read from a forces file instead of solved from a frame (see pinchk.forcesfile)."""
+
+    file: str  # as the job file names it
+    path: str  # resolved against the job file's folder
+    balance_tol: float  # flag a pin whose member forces sum to more than this share of its largest
+    solution: Any = None  # the pinchk.frame.FrameSolution built from the file
+
+
+@dataclass(frozen=True)
 class Job:
     path: str
     title: str
@@ -144,3 +155,4 @@ class Job:
     loads: tuple[Load, ...]
     cases: dict[str, Case]
     info: dict[str, str] = field(default_factory=dict)
+    forces: ForcesSource | None = None  # set when the job reads its joint forces from a forces file

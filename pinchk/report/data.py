@@ -44,10 +44,10 @@ def to_dict(results) -> dict:
         "verdict": verdict(results),
         "governing": governing,
         "checks": rows,
-        "joint_forces": [
+        "joint_forces": _with_axial(sol, [
             {"case": c, "pin": p, "member": m, "fx": convert(fx, "force", units), "fy": convert(fy, "force", units),
              "resultant": convert(f, "force", units), "angle_deg": a, "unit": fu}
-            for c, p, m, fx, fy, f, a in force_rows(results)],
+            for c, p, m, fx, fy, f, a in force_rows(results)], units),
         "supports": [
             {"case": c, "support": s, "rx": convert(r[j, 0], "force", units), "ry": convert(r[j, 1], "force", units),
              "moment": convert(r[j, 2], "moment", units)}
@@ -55,11 +55,23 @@ def to_dict(results) -> dict:
         "links": [{"case": c, "link": n, "tension": convert(t[j], "force", units)}
                   for n, t in sol.links.items() for j, c in enumerate(sol.cases)],
         "solver": sol.solver,
+        "warnings": list(getattr(sol, "warnings", ())),
         "equilibrium_residual": sol.residual,
         "unchecked_pins": list(results.unchecked),
         "assumptions": list(results.assumptions),
         "caution": CAUTION,
     }
+
+
+def _with_axial(sol, rows: list[dict], units) -> list[dict]:
+    """Add fz, the force along the pin, to the joint-force rows when a forces file gives one (reported only)."""
+    if all(getattr(pf, "axial", None) is None for pf in sol.pins.values()):
+        return rows
+    fz = [float(pf.axial[j, k]) if pf.axial is not None else 0.0
+          for j in range(len(sol.cases)) for pf in sol.pins.values() for k in range(len(pf.members))]
+    for r, v in zip(rows, fz, strict=True):
+        r["fz"] = convert(v, "force", units)
+    return rows
 
 
 def render_json(results, **_) -> str:

@@ -26,6 +26,13 @@ def render_table(results, all_cases: bool = False, forces: bool = True) -> str:
         out.append(tabulate(rows, headers=["case", "pin", "member", f"Fx [{fu}]", f"Fy [{fu}]", f"|F| [{fu}]",
                                            "angle [deg]"], disable_numparse=True))
         out.append("")
+        axial = [(case, pname, m, fmt(convert(pf.axial[j, k], "force", units)))
+                 for j, case in enumerate(results.solution.cases) for pname, pf in results.solution.pins.items()
+                 if getattr(pf, "axial", None) is not None for k, m in enumerate(pf.members)]
+        if axial:
+            out.append("Force each member receives along the pin (from the forces file; reported, not checked)")
+            out.append(tabulate(axial, headers=["case", "pin", "member", f"Fz [{fu}]"], disable_numparse=True))
+            out.append("")
         sup = []
         for sname, r in results.solution.supports.items():
             for j, case in enumerate(results.solution.cases):
@@ -61,6 +68,8 @@ def render_table(results, all_cases: bool = False, forces: bool = True) -> str:
         out.append("not checked (no stack of plates given): pins " + ", ".join(results.unchecked))
     for note in results.assumptions:
         out.append(f"assumed: {note}")
+    for w in getattr(results.solution, "warnings", ()):
+        out.append(f"WARNING: {w}")
     out.append("")
     out.append(verdict(results))
     out.append(f"caution: {CAUTION}")
