@@ -150,6 +150,17 @@ def test_html_parses_with_its_structure(gantry_html):
     assert "src=\"http" not in gantry_html and "<script" not in gantry_html
 
 
+def test_every_demo_gives_a_whole_html_report(demo):
+    text = render(demo, "html", date=DATE)
+    d = parse(text)
+    assert d.errors == [] and d.stack == []
+    # the frame (when the job has one), the governing lug and the utilizations
+    want = (1 if demo.job.bodies or demo.job.links else 0) + 2
+    assert len(d.imgs) == want
+    for w in demo.solution.warnings:
+        assert html.escape(w, quote=False) in text or w in html.unescape(text)
+
+
 def test_every_results_row_is_in_the_html_with_its_numbers(gantry, gantry_html):
     d = parse(gantry_html)
     got = []

@@ -173,7 +173,8 @@ def context(results, date: str | None = None, pictures: dict[str, tuple[str, str
         "factors": factors, "materials": materials, "bodies": bodies, "pins": pins, "links": links,
         "supports": supports, "loads": loads, "cases": cases, "forces": forces, "reactions": reactions,
         "link_forces": link_forces, "stacks": stacks, "solver": sol.solver,
-        "residual": f"{sol.residual:.1e}",
+        "residual": f"{sol.residual:.1e}", "warnings": list(getattr(sol, "warnings", ())),
+        "forces_file": os.path.basename(job.forces.path) if getattr(job, "forces", None) is not None else None,
         "checks": [{"pin": p, "utilization": f"{pin_util[p]:.3f}", "band": _band(pin_util[p]),
                     "parts": [{"part": part, "rows": rows} for part, rows in parts.items()]}
                    for p, parts in by_pin.items()],

@@ -130,7 +130,7 @@ def _frame(results) -> bytes:
     pts += [s.at.xy for s in job.supports.values()]
     P = np.array(pts, float) if pts else np.zeros((1, 2))
     lo, hi = P.min(axis=0), P.max(axis=0)
-    span = float(max(hi[0] - lo[0], hi[1] - lo[1], 1e-3))
+    span = float(max(hi[0] - lo[0], hi[1] - lo[1], 0.0)) or 1.0  # a frame at one point still gets a scale
     k_len = lambda v: convert(v, "length", units)  # noqa: E731  drawing in output length units
     s = 0.045 * span  # symbol size
 
@@ -256,6 +256,8 @@ def _frame(results) -> bytes:
 def _size(dx: float, dy: float, legend: float) -> tuple[float, float]:
     """Figure size [in] for a drawing of extent dx by dy beside a legend ``legend`` inches wide."""
     w_ax = 5.6
+    if not max(dx, dy) > 0:
+        dx = dy = 1.0
     h = w_ax * (dy + 0.4 * max(dx, dy)) / (dx + 0.4 * max(dx, dy)) + 0.9
     return w_ax + legend, min(max(h, 3.4), 7.5)
 
@@ -406,13 +408,15 @@ def _lug(results, row: int) -> bytes:
                                  zorder=6))
     ux, uy = math.cos(th), math.sin(th)
     mid = (np.asarray(a0) + np.asarray(a1)) / 2
+    px, py = (-uy, ux) if ux >= -1e-9 else (uy, -ux)  # beside the arrow, on its upper side
     ax.annotate(f"F = {fmt(convert(f, 'force', units))} {fu}\nat {math.degrees(th):.1f}°", mid,
-                xytext=(-14 * uy, 14 * ux) if ux >= -1e-9 else (14 * uy, -14 * ux), textcoords="offset points",
-                fontsize=8.5, fontweight="bold", zorder=7, ha="center", va="center")
+                xytext=(12 * px, 12 * py), textcoords="offset points", fontsize=8.5, fontweight="bold", zorder=7,
+                ha="left" if px > 0.3 else ("right" if px < -0.3 else "center"),
+                va="bottom" if py > 0.3 else ("top" if py < -0.3 else "center"))
     # distances the checks use
     a_edge = e - d0 / 2
     c_edge = w / 2 - d0 / 2
-    _dim(ax, g([d0 / 2, -0.08 * w]), g([e, -0.08 * w]), f"a = {fmt(L(a_edge))}")
+    _dim(ax, g([d0 / 2, 0]), g([e, 0]), f"a = {fmt(L(a_edge))}")
     _dim(ax, g([-0.5 * d0 - 0.25 * w, d0 / 2]), g([-0.5 * d0 - 0.25 * w, w / 2]), f"c = {fmt(L(c_edge))}")
     _dim(ax, g([-0.8 * back, -w / 2]), g([-0.8 * back, w / 2]), f"w = {fmt(L(w))}")
     fig.legend(loc="upper right", fontsize=8, frameon=False)
@@ -491,8 +495,11 @@ def _bars(results) -> bytes:
 def all_figure_captions(results) -> dict[str, str]:
     """The pictures the report has for these results: key -> caption (the frame, the governing lug, the
     utilization chart)."""
-    out = {"frame": "The frame in the governing case; each pin coloured by the highest utilization of the pin "
-                    "and its plates"}
+    job = results.job
+    out = {}
+    if job.bodies or job.links:  # a job checked from a forces file alone has no frame to draw
+        out["frame"] = ("The frame in the governing case; each pin coloured by the highest utilization of the pin "
+                        "and its plates")
     r = governing_plate_row(results)
     if r is not None:
         c = results.columns
