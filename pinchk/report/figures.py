@@ -26,6 +26,7 @@ BANDS = (
     (math.inf, "#b3152c", "over 1.00 (fails)"),
 )
 UNCHECKED = "#9a9a9a"
+MAX_BARS = 40  # the utilization chart shows at most this many pins and plates, the highest
 BODY = "#5d6d7e"
 LINK = "#2e4053"
 LOAD = "#111111"
@@ -469,6 +470,8 @@ def bars_figure(results) -> bytes:
 def _bars(results) -> bytes:
     c = results.columns
     rows = governing_by_part(results)
+    more = max(len(rows) - MAX_BARS, 0)
+    rows = rows[:MAX_BARS]  # the highest; every row is in the report's tables
     n = len(rows)
     fig = _figure(8.0, 1.8 + 0.28 * max(n, 1))
     ax = fig.subplots()
@@ -485,7 +488,8 @@ def _bars(results) -> bytes:
     top = max(1.0, float(shown.max(initial=0.0)))
     ax.set_xlim(0, top * 1.55)
     ax.set_xlabel("utilization = demand / capacity (1.00 = limit)")
-    ax.set_title("Utilization of every pin and plate: its governing check and case")
+    ax.set_title("Utilization of every pin and plate: its governing check and case" if not more else
+                 f"Utilization of the {n} most used pins and plates ({more} more in the tables)")
     fig.legend(handles=_legend_handles(float(u.max(initial=0.0))), loc="outside lower center", ncol=3, fontsize=7.5,
                frameon=False)
     ax.grid(True, axis="x", color="#e5e5e5", lw=0.6)
