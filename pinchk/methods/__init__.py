@@ -12,12 +12,14 @@ capacity as expressions in those names::
     make_check("bearing", "EN 1993-1-8 Table 3.10: Fb,Rd = 1.5 t d fy / γM0", "force", F, Fb_Rd, "γM0 = 1",
                terms=(term("FEd", "force", F), term("t", "length", t), term("d", "length", d),
                       term("fy", "stress", fy), term("γM0", "ratio", g0)),
-               worked=("FEd = {FEd}", "Fb,Rd = 1.5 {t} {d} {fy} / {γM0}"))
+               worked=("FEd = {FEd}", "Fb,Rd = 1.5 × {t} × {d} × {fy} / {γM0}"))
 
 A term is (symbol, kind, values): the symbol as printed, the kind of figure (as ``Check.kind``) and the
 SI values, one per row or a scalar. ``{symbol}`` in an expression is replaced by that row's value in the
-output units; "×" is put between adjacent values. Both are optional: a check without them is reported
-with its formula, demand and capacity only. A new method only has to follow this pattern.
+output units, and the report appends "= result". Write the arithmetic out (×, /, +, −, √(…), π, min(…),
+(…)², (…)³): tests/test_report.py evaluates every expression and requires the check's own demand and
+capacity from it. Both are optional: a check without them is reported with its formula, demand and
+capacity only. A new method only has to follow this pattern (docs/report.md).
 """
 
 from __future__ import annotations
