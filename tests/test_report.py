@@ -309,6 +309,42 @@ def test_worked_expressions_give_the_checked_figures(job):
         assert n_worked == 2 * len(res)
 
 
+def _bolted(tmp_path, src: Path, pin_head: str, material: str, bolt: str) -> Path:
+    """A demo job with one pin made a bolt of grade ``bolt``, its thread in the first shear plane."""
+    text = src.read_text(encoding="utf-8")
+    head = text.index(pin_head)
+    at = text.index(material, head)
+    text = text[:at] + f'bolt = "{bolt}"\nthread_planes = [1]' + text[at + len(material):]
+    out = tmp_path / src.name
+    out.write_text(text, encoding="utf-8")
+    return out
+
+
+@pytest.mark.parametrize("src, head, material, bolt, variants, shown", [
+    # M30 coarse (pitch 3.5 mm): As = (π/4)(30 − 0.9382 × 3.5)² = 560.6 mm²; the ISO 898-1 table gives 561
+    (GANTRY, "[pin.PL]", 'material = "42CrMo4+QT"', "8.8", (None,), ("× 560.6 mm² /", "0.6000 × 800.0 MPa")),
+    # AISC 360-16 Table J3.2, Group A (A325): Fnv = 68 ksi threads excluded, 54 ksi threads included
+    (ROOT / "examples" / "jib_bracket_aisc.toml", "[pin.P_root]", 'material = "A193-B7"', "A325", ("ASD", "LRFD"),
+     ("68.00 ksi × π (1.250 in)² / 4", "54.00 ksi × π (1.250 in)² / 4")),
+])
+def test_worked_expressions_of_bolts_used_as_pins(tmp_path, src, head, material, bolt, variants, shown):
+    from dataclasses import replace
+
+    job = pinchk.load_job(str(_bolted(tmp_path, src, head, material, bolt)))
+    for v in variants:
+        res = pinchk.run(replace(job, method=replace(job.method, variant=v)))
+        c = res.columns
+        bolt_rows = [i for i in range(len(res)) if c["check"][i].startswith("bolt shear")]
+        assert {c["check"][i] for i in bolt_rows} == {"bolt shear (shank)", "bolt shear (thread)"}
+        for i in range(len(res)):
+            for key, col in (("worked_demand", "demand"), ("worked_capacity", "capacity")):
+                assert _evaluate(c[key][i], c["terms"][i]) == pytest.approx(float(c[col][i]), rel=1e-9), \
+                    (c["check"][i], c[key][i])
+        md = render(res, "md", date=DATE)
+        for text in shown:
+            assert text in md
+
+
 def test_bearing_worked_by_hand(gantry, gantry_html):
     # EN 1993-1-8:2005 Table 3.10, Fb,Rd = 1.5 t d fy / γM0 for the demo's tie plate at PL: t = 12 mm,
     # d = 30 mm, fy = 355 MPa (S355, t <= 16 mm, EN 10025-2), γM0 = 1.0: 1.5*12*30*355/1.0 N = 191.7 kN

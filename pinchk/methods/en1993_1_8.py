@@ -38,33 +38,70 @@ def term(symbol, kind, values):
     return _term(symbol, kind, values)
 
 
+#: Table 3.4: αv for a shear plane through the thread, by property class (0.6 through the shank).
+#: [seen for 4.6, 8.8, 10.9; from memory for 4.8, 5.6, 5.8, 6.8]. Other grades: 0.5, the lower value
+#: (common practice: EN 1993-1-8 gives αv only for these classes).
+ALPHA_V_THREAD = {"4.6": 0.6, "5.6": 0.6, "8.8": 0.6, "4.8": 0.5, "5.8": 0.5, "6.8": 0.5, "10.9": 0.5}
+
+
+def alpha_v_thread(grades):
+    return np.array([ALPHA_V_THREAD.get(g, 0.5) for g in grades], float)
+
+
 def pin_checks(P, f, variant=None):
-    """Pin shear, bending and their interaction (Table 3.10), and bending under serviceability loads."""
+    """Pin shear, bending and their interaction (Table 3.10), and bending under serviceability loads.
+
+    A bolt used as a pin takes shear per Table 3.4 (Fv,Rd = αv fub A / γM2, A the shank area or the
+    stress area As where the plane cuts the thread), bending as a pin (§3.13.1(4)).
+    """
     g0, g2, g6 = f["gamma_M0"], f["gamma_M2"], f["gamma_M6_ser"]
     d = P["d"]
+    n = d.shape[0]
     A = np.pi * d**2 / 4
     Wel = np.pi * d**3 / 32
     Fv_Rd = 0.6 * A * P["fup"] / g2  # Table 3.10, shear resistance per shear plane
     M_Rd = 1.5 * Wel * P["fyp"] / g0  # Table 3.10, bending resistance of the pin
     M_Rd_ser = 0.8 * Wel * P["fyp"] / g6  # Table 3.10, replaceable pin
     uls = P["uls"]
-    inter = (P["M"] / M_Rd) ** 2 + (P["V"] / Fv_Rd) ** 2
+    bolt = P.get("bolt", np.zeros(n, bool))
+    V_sh, V_th = P.get("V_shank", P["V"]), P.get("V_thread", np.zeros(n))
+    shank, thread = P.get("shank_planes", np.ones(n, bool)), P.get("thread_planes", np.zeros(n, bool))
+    Fv_sh = 0.6 * P["fup"] * A / g2  # Table 3.4, shank in the shear plane
+    av_th = alpha_v_thread(P.get("grade", [""] * n))
+    As = P.get("As", A)
+    Fv_th = av_th * P["fup"] * As / g2  # Table 3.4, thread in the shear plane
+    shear_ratio = np.where(bolt, np.maximum(V_sh / Fv_sh, V_th / Fv_th), P["V"] / Fv_Rd)
+    inter = (P["M"] / M_Rd) ** 2 + shear_ratio ** 2
     V, M = P["V"], P["M"]
+    # the shear and resistance the interaction uses: a bolt's worse of shank and thread
+    by_thread = bolt & (V_th / Fv_th > V_sh / Fv_sh)
+    V_int = np.where(bolt, np.where(by_thread, V_th, V_sh), V)
+    Fv_int = np.where(bolt, np.where(by_thread, Fv_th, Fv_sh), Fv_Rd)
     t_d = term("d", "length", d)
     t_V, t_M = term("Fv,Ed", "force", V), term("MEd", "moment", M)
     t_fup, t_fyp = term("fup", "stress", P["fup"]), term("fyp", "stress", P["fyp"])
     t_g0, t_g2, t_g6 = term("γM0", "ratio", g0), term("γM2", "ratio", g2), term("γM6,ser", "ratio", g6)
     return [
         _check("pin shear", "EN 1993-1-8 Table 3.10: Fv,Rd = 0.6 A fup / γM2", "force", V, Fv_Rd,
-               f"γM2 = {g2:g}", uls, terms=(t_V, t_d, t_fup, t_g2),
+               f"γM2 = {g2:g}", uls & ~bolt, terms=(t_V, t_d, t_fup, t_g2),
                worked=("Fv,Ed = {Fv,Ed}", "Fv,Rd = 0.6 × π ({d})² / 4 × {fup} / {γM2}")),
+        _check("bolt shear (shank)", "EN 1993-1-8 Table 3.4: Fv,Rd = αv fub A / γM2, αv = 0.6 (shank)", "force",
+               V_sh, Fv_sh, f"γM2 = {g2:g}, αv = 0.6", uls & bolt & shank,
+               terms=(term("Fv,Ed", "force", V_sh), term("fub", "stress", P["fup"]), t_d, t_g2),
+               worked=("Fv,Ed = {Fv,Ed}", "Fv,Rd = 0.6 × {fub} × π ({d})² / 4 / {γM2}")),
+        _check("bolt shear (thread)", "EN 1993-1-8 Table 3.4: Fv,Rd = αv fub As / γM2 (thread in the plane)",
+               "force", V_th, Fv_th, f"γM2 = {g2:g}, αv by class (0.6 for 4.6, 5.6, 8.8; 0.5 otherwise)",
+               uls & bolt & thread, "a thread lies in this shear plane: rigging practice warns against it",
+               terms=(term("Fv,Ed", "force", V_th), term("αv", "ratio", av_th), term("fub", "stress", P["fup"]),
+                      term("As", "area", As), t_g2),
+               worked=("Fv,Ed = {Fv,Ed}", "Fv,Rd = {αv} × {fub} × {As} / {γM2}")),
         _check("pin bending", "EN 1993-1-8 Table 3.10: MRd = 1.5 Wel fyp / γM0 (MEd per Fig. 3.11 model)",
                "moment", M, M_Rd, f"γM0 = {g0:g}", uls, terms=(t_M, t_d, t_fyp, t_g0),
                worked=("MEd = {MEd}", "MRd = 1.5 × π ({d})³ / 32 × {fyp} / {γM0}")),
         _check("pin shear + bending", "EN 1993-1-8 Table 3.10: (MEd/MRd)² + (Fv,Ed/Fv,Rd)² ≤ 1", "ratio",
                inter, np.ones_like(inter), f"γM0 = {g0:g}, γM2 = {g2:g}", uls,
                "largest moment and largest shear combined, wherever they occur (conservative)",
-               terms=(t_M, term("MRd", "moment", M_Rd), t_V, term("Fv,Rd", "force", Fv_Rd)),
+               terms=(t_M, term("MRd", "moment", M_Rd), term("Fv,Ed", "force", V_int), term("Fv,Rd", "force", Fv_int)),
                worked=("({MEd} / {MRd})² + ({Fv,Ed} / {Fv,Rd})²", "1")),
         _check("pin bending (serviceability)", "EN 1993-1-8 Table 3.10: MRd,ser = 0.8 Wel fyp / γM6,ser",
                "moment", M, M_Rd_ser, f"γM6,ser = {g6:g}", P["ser"], terms=(t_M, t_d, t_fyp, t_g6),
@@ -116,5 +153,5 @@ def plate_checks(Q, f, variant=None):
                t_min_b, t, f"γM0 = {g0:g}", type_b, "outline of the Table 3.9 B figure assumed",
                terms=(t_F, t_g0, t_fy, t_t), worked=("t,req = 0.7 × √({FEd} × {γM0} / {fy})", "t = {t}")),
         _check("hole to thickness (type B)", "EN 1993-1-8 Table 3.9 B: d0 ≤ 2.5 t", "length", d0, 2.5 * t,
-               "", type_b, terms=(t_d0, t_t), worked=("d0 = {d0}", "2.5 × {t}")),
+               "", type_b, uses_forces=False, terms=(t_d0, t_t), worked=("d0 = {d0}", "2.5 × {t}")),
     ]

@@ -16,9 +16,11 @@ _PLACEHOLDER = re.compile(r"\{([^{}]+)\}")
 
 
 def value_text(value: float, kind: str, units: dict[str, str]) -> str:
-    """A figure with its unit ("20.00 mm"); ratios and factors bare."""
+    """A figure with its unit ("20.00 mm"); ratios and factors bare; kind "area" in length units squared."""
     if kind in ("ratio", ""):
         return fmt(value)
+    if kind == "area":  # an area term (a thread stress area): in the output length unit squared
+        return f"{fmt(convert(convert(value, 'length', units), 'length', units))} {unit_of('length', units)}²"
     return f"{fmt(convert(value, kind, units))} {unit_of(kind, units)}"
 
 
