@@ -157,8 +157,13 @@ def test_every_demo_gives_a_whole_html_report(demo):
     # the frame (when the job has one), the governing lug and the utilizations
     want = (1 if demo.job.bodies or demo.job.links else 0) + 2
     assert len(d.imgs) == want
-    for w in demo.solution.warnings:
-        assert html.escape(w, quote=False) in text or w in html.unescape(text)
+    plain = html.unescape(text)
+    for w in (*demo.solution.warnings, *demo.warnings):
+        assert w in plain
+    from pinchk.report.common import combination_lines
+
+    for line in combination_lines(demo):  # combinations and lift factors, where the job gives them
+        assert line in plain
 
 
 def test_every_results_row_is_in_the_html_with_its_numbers(gantry, gantry_html):

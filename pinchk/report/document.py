@@ -25,7 +25,7 @@ import numpy as np
 
 from .. import __version__
 from . import CAUTION
-from .common import convert, fmt, force_rows, governing_by_check, unit_of, units_of, verdict
+from .common import combination_lines, convert, fmt, force_rows, governing_by_check, unit_of, units_of, verdict
 from .worked import value_text, worked_line
 
 _TEMPLATES = os.path.join(os.path.dirname(__file__), "templates")
@@ -173,7 +173,9 @@ def context(results, date: str | None = None, pictures: dict[str, tuple[str, str
         "factors": factors, "materials": materials, "bodies": bodies, "pins": pins, "links": links,
         "supports": supports, "loads": loads, "cases": cases, "forces": forces, "reactions": reactions,
         "link_forces": link_forces, "stacks": stacks, "solver": sol.solver,
-        "residual": f"{sol.residual:.1e}", "warnings": list(getattr(sol, "warnings", ())),
+        "residual": f"{sol.residual:.1e}",
+        "warnings": [*getattr(sol, "warnings", ()), *getattr(results, "warnings", ())],
+        "combination_lines": combination_lines(results), "combined": bool(getattr(job, "combinations", None)),
         "forces_file": os.path.basename(job.forces.path) if getattr(job, "forces", None) is not None else None,
         "checks": [{"pin": p, "utilization": f"{pin_util[p]:.3f}", "band": _band(pin_util[p]),
                     "parts": [{"part": part, "rows": rows} for part, rows in parts.items()]}

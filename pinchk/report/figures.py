@@ -217,16 +217,19 @@ def _frame(results) -> bytes:
             bxy = k_len(np.array(list(job.bodies[m].points.values()), float).mean(axis=0))
             toward = bxy - pxy
             nt = float(np.hypot(*toward))
-            start = pxy + (toward / nt * k_len(1.2 * s) if nt > 0 else 0)
+            tu = toward / nt if nt > 0 else np.zeros(2)
             L = k_len(0.13 * span * f / fmax_pin)
-            end = start + L * np.array([fx, fy]) / f
+            u = np.array([fx, fy]) / f
+            near = pxy + tu * k_len(1.2 * s)  # just off the pin disc, on the body's side
+            # the arrow lies on the body's side of the pin whichever way the force points
+            start, end = (near, near + L * u) if float(np.dot(u, tu)) >= 0 else (near - L * u, near)
             ax.add_patch(FancyArrowPatch(start, end, arrowstyle="-|>,head_length=5,head_width=3", lw=1.4,
                                          color=PIN_FORCE, zorder=7))
-            ux, uy = fx / f, fy / f
-            ax.annotate(f"{fmt(convert(f, 'force', units), 3)}", end, xytext=(7 * ux, 7 * uy),
+            px, py = (-u[1], u[0]) if u[0] >= 0 else (u[1], -u[0])  # beside the arrow's middle
+            ax.annotate(f"{fmt(convert(f, 'force', units), 3)}", (start + end) / 2, xytext=(6 * px, 6 * py),
                         textcoords="offset points", fontsize=7, color=PIN_FORCE, zorder=8,
-                        ha="left" if ux > 0.3 else ("right" if ux < -0.3 else "center"),
-                        va="bottom" if uy > 0.3 else ("top" if uy < -0.3 else "center"))
+                        ha="left" if px > 0.3 else ("right" if px < -0.3 else "center"),
+                        va="bottom" if py > 0.3 else ("top" if py < -0.3 else "center"))
 
     for pname, pin in job.pins.items():
         xy = k_len(np.array(pin.xy))
@@ -235,10 +238,13 @@ def _frame(results) -> bytes:
         ax.add_patch(Circle(xy, k_len(0.6 * s), facecolor=col, edgecolor="#222222", lw=1.2, zorder=9))
         ax.add_patch(Circle(xy, k_len(0.18 * s), facecolor="white", edgecolor="#222222", lw=0.8, zorder=10))
         text = f"{pname}\n" + ("not checked" if u is None else f"u = {u:.3f}")
-        ax.annotate(text, xy, xytext=(9, 7), textcoords="offset points", fontsize=8, fontweight="bold",
-                    zorder=11, bbox={"boxstyle": "round,pad=0.2", "fc": "white", "ec": col, "alpha": 0.9})
+        ox, oy = _clear_side(job, pname, case)
+        ax.annotate(text, xy, xytext=(14 * ox, 14 * oy), textcoords="offset points", fontsize=8, fontweight="bold",
+                    zorder=11, bbox={"boxstyle": "round,pad=0.2", "fc": "white", "ec": col, "alpha": 0.9},
+                    ha="left" if ox > 0.25 else ("right" if ox < -0.25 else "center"),
+                    va="bottom" if oy > 0.25 else ("top" if oy < -0.25 else "center"))
 
-    pad = k_len(0.16 * span)
+    pad = k_len(0.22 * span)
     ax.set_xlim(k_len(lo[0]) - pad, k_len(hi[0]) + pad)
     ax.set_ylim(k_len(lo[1]) - pad, k_len(hi[1]) + pad)
     ax.set_xlabel(f"x [{lu}]")
@@ -252,6 +258,38 @@ def _frame(results) -> bytes:
                title="pin colour: highest utilization\nof the pin and its plates,\nevery case", title_fontsize=8,
                alignment="left")
     return _png(fig)
+
+
+def _clear_side(job, pname: str, case: str | None) -> tuple[float, float]:
+    """A unit direction from a pin away from what meets it (bodies, links, supports, the loads of ``case``),
+    for its label."""
+    p = np.array(job.pins[pname].xy, float)
+    away = np.zeros(2)
+    others = [np.array(list(job.bodies[b].points.values()), float).mean(axis=0) for b in job.pins[pname].bodies
+              if b in job.bodies]
+    for lk in job.links.values():
+        ends = [e for e in lk.ends if e.pin == pname or math.dist(e.xy, p) < 1e-9]
+        if ends:
+            others += [np.array(e.xy, float) for e in lk.ends if e not in ends]
+    for v in others:
+        d = v - p
+        n = float(np.hypot(*d))
+        if n > 0:
+            away -= d / n
+    for sup in job.supports.values():
+        if sup.at.pin == pname or math.dist(sup.at.xy, p) < 1e-9:
+            nrm = np.array(sup.normal if sup.normal is not None else (0.0, 1.0), float)
+            away += nrm / (float(np.hypot(*nrm)) or 1.0)  # the support is drawn on the far side of its normal
+    for ld in job.loads:
+        if ld.case == case and math.dist(ld.at.xy, p) < 1e-9 and math.hypot(*ld.force) > 0:
+            away += np.array(ld.force) / math.hypot(*ld.force)  # the load arrow comes from the other side
+    n = float(np.hypot(*away))
+    if n < 1e-6:
+        return (0.7071, 0.7071)
+    # prefer the diagonals, where a label box sits best beside a disc
+    ang = math.atan2(away[1], away[0])
+    ang = math.radians(45 + 90 * round((math.degrees(ang) - 45) / 90))
+    return (math.cos(ang), math.sin(ang))
 
 
 def _size(dx: float, dy: float, legend: float) -> tuple[float, float]:
