@@ -340,7 +340,7 @@ def _support(ax, xy, s, kind, normal, name):
     col = "#34495e"
     if kind == "fixed":
         ang = math.degrees(math.atan2(n[1], n[0])) - 90
-        base = xy - n * 0.6 * s - t * 1.1 * s
+        base = xy - n * 0.6 * s + t * 1.1 * s  # the corner the rotated block starts from
         ax.add_patch(Rectangle(base, 2.2 * s, 0.6 * s, angle=ang, facecolor="#cfd6dd", edgecolor=col,
                                hatch="////", lw=1.0, zorder=3))
     else:
