@@ -299,6 +299,12 @@ def _variants():
         job = pinchk.load_job(str(p))
         for v in METHODS[job.method.name].VARIANTS or (job.method.variant,):
             out.append(pytest.param(replace(job, method=replace(job.method, variant=v)), id=f"{p.stem}-{v}"))
+    # the boom demo (cheek groups, a bushing, a lateral load at a lug base, a retainer) under AISC 360-16 too,
+    # so that its base-section checks (§F11.1, §H1.1, §G1) are worked out in both variants
+    boom = pinchk.load_job(str(ROOT / "examples" / "boom_head_joint.toml"))
+    for v in METHODS["AISC 360-16"].VARIANTS:
+        m = replace(boom.method, name="AISC 360-16", variant=v, factors={})
+        out.append(pytest.param(replace(boom, method=m), id=f"boom_head_joint-AISC-{v}"))
     return out
 
 

@@ -24,6 +24,7 @@ import os
 import numpy as np
 
 from .. import __version__
+from ..stack import part_names
 from . import CAUTION
 from .common import combination_lines, convert, fmt, force_rows, governing_by_check, unit_of, units_of, verdict
 from .worked import value_text, worked_line
@@ -112,12 +113,7 @@ def context(results, date: str | None = None, pictures: dict[str, tuple[str, str
 
     pins = []
     for p in job.pins.values():
-        try:
-            from ..checks import _part_names
-
-            parts = _part_names(p)
-        except Exception:  # noqa: BLE001  the part names are cosmetic here
-            parts = [q.member for q in p.stack]
+        parts = part_names(p)
         pins.append({
             "name": p.name, "xy": xy_text(p.xy),
             "bodies": ", ".join(p.bodies) or "-", "d": _L(p.diameter, units),

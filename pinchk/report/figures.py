@@ -366,114 +366,194 @@ def _support(ax, xy, s, kind, normal, name):
 
 # ------------------------------------------------------------------------------------------------ lug
 def governing_plate_row(results) -> int | None:
-    """The plate row with the highest utilization (the governing lug), or None if no plate is checked."""
+    """The row with the highest utilization on a lug plate (a plate or a main plate with its cheeks; not a
+    bushing, not the pin or its retainer), or None if no plate is checked."""
     c = results.columns
     for i in results.order:
-        if c["part"][int(i)] != "pin":
-            return int(i)
+        i = int(i)
+        if _plate_part(results, c["pin"][i], c["part"][i]) is not None:
+            return i
     return None
 
 
-def _plate_index(pin, part: str) -> int:
-    from ..checks import _part_names
+def _plate_part(results, pin: str, label: str):
+    """The pinchk.joint.Part of kind "plate" of ``pin`` called ``label``, or None."""
+    from ..joint import parts_of
 
-    return _part_names(pin).index(part)
+    p = results.job.pins.get(pin)
+    if p is None or label in ("pin", "pin retainer"):
+        return None
+    return next((q for q in parts_of(p) if q.label == label and q.kind == "plate"), None)
 
 
 def lug_figure(results, row: int) -> bytes:
-    """A sketch of one lug plate (the governing one) along the real direction of its force: the outline,
-    the hole and the pin in it, the force, the failure planes and the distances the checks use."""
+    """A sketch of one lug plate (the governing one): its outline as given, drawn in the frame's orientation
+    with its axis, the hole and the pin bearing in it, the real force direction of the row's case, the
+    failure planes and the distances the checks use along that force."""
     with _Styled():
         return _lug(results, row)
 
 
+def outline_polygon(outline, back: float, n: int = 181) -> tuple[np.ndarray, bool]:
+    """The outline's boundary in lug coordinates (s, n) [m] as a closed polygon, and whether its last edge
+    is a base section given in the job (else the sides are cut at ``back`` behind the hole for the drawing).
+
+    Round: every line across the axis runs from the base to s = s_c + √(R² − (n − n_c)²) (s_c where the line
+    misses the arc: a shoulder); square: to the end; polygon: its vertices, the closing edge the base.
+    """
+    if outline.kind == "polygon":
+        return np.asarray(outline.vertices, float), True
+    w2 = outline.width / 2
+    b = outline.base if outline.base is not None else back
+    if outline.kind == "square":
+        front = np.array([[outline.end, -w2], [outline.end, w2]])
+    else:
+        cs, cn = outline.centre
+        R = outline.end
+        nn = np.unique(np.concatenate([np.linspace(-w2, w2, n), np.clip([cn - R, cn + R], -w2, w2)]))
+        front = np.column_stack([cs + np.sqrt(np.maximum(R**2 - (nn - cn) ** 2, 0.0)), nn])
+    return np.vstack([[[-b, -w2]], front, [[-b, w2]]]), outline.base is not None
+
+
+def _ray_exit(poly: np.ndarray, p: np.ndarray, u: np.ndarray) -> float:
+    """Distance from ``p`` along ``u`` to the first crossing of the closed polygon ``poly`` (inf: none)."""
+    q = np.roll(poly, -1, axis=0)
+    e = q - poly
+    den = u[0] * e[:, 1] - u[1] * e[:, 0]
+    with np.errstate(divide="ignore", invalid="ignore"):
+        t = ((poly[:, 0] - p[0]) * e[:, 1] - (poly[:, 1] - p[1]) * e[:, 0]) / den
+        lam = ((poly[:, 0] - p[0]) * u[1] - (poly[:, 1] - p[1]) * u[0]) / den
+    ok = (den != 0) & (t > 1e-12) & (lam >= -1e-9) & (lam <= 1 + 1e-9)
+    return float(t[ok].min()) if ok.any() else math.inf
+
+
 def _lug(results, row: int) -> bytes:
+    from matplotlib.lines import Line2D
     from matplotlib.patches import Arc, Circle, FancyArrowPatch, Polygon
+
+    from .. import lug as lugmod
+    from ..combine import row_factors
+    from ..joint import outline_of
 
     c = results.columns
     units = units_of(results)
     lu, fu = unit_of("length", units), unit_of("force", units)
-    pname, part, case = c["pin"][row], c["part"][row], c["case"][row]
+    pname, label, case = c["pin"][row], c["part"][row], c["case"][row]
     pin = results.job.pins[pname]
-    k = _plate_index(pin, part)
-    plate = pin.stack[k]
+    part = _plate_part(results, pname, label)
+    plates = [pin.stack[i] for i in part.plates]
+    plate = plates[0]  # the main plate: its outline is drawn (cheek plates are listed)
     j = results.solution.cases.index(case)
-    F = results.stacks[pname].plate_force[j, k]
+    st = results.stacks[pname]
+    sfac = row_factors(results.job, results.solution.cases, pname, {plate.member})[0]
+    F = part.force(st)[j] * sfac[j]
     f = float(np.hypot(*F))
-    th = math.atan2(F[1], F[0]) if f > 0 else math.pi / 2
-    rot = np.array([[math.cos(th), -math.sin(th)], [math.sin(th), math.cos(th)]])
-    L = lambda v: convert(v, "length", units)  # noqa: E731
-
-    d, d0, w, e, t = pin.diameter, plate.hole, plate.width, plate.end, plate.thickness
-    back = max(1.6 * w, 2.2 * e)
-    # outline in lug axes: x along the force (toward the end), y across
-    if plate.shape == "round":
-        phi = np.linspace(-math.pi / 2, math.pi / 2, 91)
-        cap = np.column_stack([e * np.cos(phi), (w / 2) * np.sin(phi)])
+    u = np.array(F) / f if f > 0 else None
+    # lug axis in the frame: as given, else along the force of this case
+    if plate.axis is not None:
+        ax_u = lugmod.unit(plate.axis)[0]
     else:
-        cap = np.array([[0, -w / 2], [e, -w / 2], [e, w / 2], [0, w / 2]])
-    outline = np.vstack([[-back, -w / 2], cap, [-back, w / 2]])
+        ax_u = u if u is not None else np.array([0.0, 1.0])
+    if u is None:
+        u = ax_u
+    th_f = math.atan2(u[1], u[0])
+    R = np.array([[ax_u[0], -ax_u[1]], [ax_u[1], ax_u[0]]])  # lug (s, n) -> frame (x, y)
+    Lc = lambda v: convert(v, "length", units)  # noqa: E731
+
+    outline = outline_of(plate)
+    d = min(q.bushing.outer if q.bushing else pin.diameter for q in plates)  # what bears on the plate
+    d0 = max(q.bushing.outer if q.bushing else q.hole + pin.wear for q in plates)
+    t = sum(q.thickness for q in plates)
+    r3 = outline.reach(np.array([[1.0, 0.0], [0.0, 1.0], [0.0, -1.0]]))  # along the axis and across it
+    size = float(max(r3[np.isfinite(r3)].max(initial=d0), d0))  # a scale for the drawing
+    poly_l, has_base = outline_polygon(outline, back=2.2 * size)
+    poly = poly_l @ R.T  # frame orientation, hole centre at the origin [m]
+    geo = lugmod.along(outline, d0, u[None, :], plate.axis)
+    perp = np.array([-u[1], u[0]])
 
     def g(xy):
-        return L(np.asarray(xy, float) @ rot.T)
+        return Lc(np.asarray(xy, float))
 
-    allp = g(np.vstack([outline, [[e + 2.4 * d0, 0], [e + 1.5 * d0, 0.6 * w], [e + 1.5 * d0, -0.6 * w]]]))
-    lo, hi = allp.min(axis=0), allp.max(axis=0)
-    fig, ax = _drawing(_size(*(hi - lo), legend=2.8), legend=2.8)
-    ax.add_patch(Polygon(g(outline), closed=False, facecolor="#d6dde4", edgecolor=BODY, lw=1.5, zorder=1))
-    ax.plot(*g([[-back, -w / 2], [-back, w / 2]]).T, color=BODY, lw=1.0, ls=(0, (6, 3)), zorder=1)
-    ax.add_patch(Circle(g([0, 0]), L(d0 / 2), facecolor="white", edgecolor=BODY, lw=1.2, zorder=2))
-    # the pin bears on the hole's edge on the force side
-    ax.add_patch(Circle(g([(d0 - d) / 2, 0]), L(d / 2), facecolor="#f3e7c4", edgecolor="#8a6d1d", lw=1.0,
+    ext = np.vstack([poly, [u * (_finite(geo.reach[0], size) + 2.4 * d0)]])
+    lo, hi = ext.min(axis=0), ext.max(axis=0)
+    fig, ax = _drawing(_size(*(Lc(hi - lo)), legend=2.9), legend=2.9)
+    ax.add_patch(Polygon(g(poly), closed=True, facecolor="#d6dde4", edgecolor="none", zorder=1))
+    ax.plot(*g(poly).T, color=BODY, lw=1.5, zorder=1)  # the free edges (open: the closing edge is the base)
+    ax.plot(*g(np.vstack([poly[-1], poly[0]])).T, color=BODY, lw=1.0, ls=(0, (6, 3)), zorder=1)  # base line
+    ax.add_patch(Circle(g([0, 0]), Lc(d0 / 2), facecolor="white", edgecolor=BODY, lw=1.2, zorder=2))
+    # the pin (or the bushing) bears on the hole's edge on the side the force pushes the plate
+    ax.add_patch(Circle(g(u * (d0 - d) / 2), Lc(d / 2), facecolor="#f3e7c4", edgecolor="#8a6d1d", lw=1.0,
                         zorder=3, alpha=0.9))
+    if plate.axis is not None:  # the lug axis, from the hole centre toward its end
+        reach_ax = _finite(float(outline.reach(np.array([[1.0, 0.0]]))[0]), size)
+        ax.plot(*g([-0.6 * size * ax_u, (reach_ax + 0.6 * d0) * ax_u]).T, color="#555555", lw=0.9,
+                ls=(0, (8, 2, 2, 2)), zorder=4)
     red = BANDS[-1][1]
-    # net section across the hole
-    for sgn in (-1, 1):
-        ax.plot(*g([[0, sgn * d0 / 2], [0, sgn * w / 2]]).T, color=red, lw=2.4, zorder=4,
-                label="net section across the hole" if sgn == 1 else None)
-    # shear-out planes beside the hole, along the force, to the end
+    # net section across the force through the hole centre, to the outline on either side
+    for sgn, cc in ((1, geo.c_pos[0]), (-1, geo.c_neg[0])):
+        if math.isfinite(cc):
+            ax.plot(*g([sgn * perp * d0 / 2, sgn * perp * (d0 / 2 + cc)]).T, color=red, lw=2.4, zorder=4)
+    # shear-out planes beside the hole, along the force, to the outline
     yk = 0.35 * d0
     for sgn in (-1, 1):
-        x0 = math.sqrt((d0 / 2) ** 2 - yk**2)
-        x1 = e * math.sqrt(max(1 - (yk / (w / 2)) ** 2, 0.0)) if plate.shape == "round" else e
-        ax.plot(*g([[x0, sgn * yk], [x1, sgn * yk]]).T, color="#1f5fa8", lw=2.4, ls=(0, (4, 2)), zorder=4,
-                label="shear-out planes beyond the hole" if sgn == 1 else None)
-    # bearing zone on the hole's edge
-    ax.add_patch(Arc(g([0, 0]), L(d0) * 1.0, L(d0) * 1.0, theta1=math.degrees(th) - 60,
-                     theta2=math.degrees(th) + 60, color="#e06a1b", lw=4, zorder=5, label="bearing on the hole"))
-    # force the plate receives from the pin
-    a0, a1 = g([e + 0.25 * d0, 0]), g([e + 1.5 * d0, 0])
+        p0 = sgn * perp * yk + u * math.sqrt((d0 / 2) ** 2 - yk**2)
+        L_out = _ray_exit(poly, p0, u)
+        if math.isfinite(L_out) and math.isfinite(geo.reach[0]):  # none where the force runs into the body
+            ax.plot(*g([p0, p0 + u * L_out]).T, color="#1f5fa8", lw=2.4, ls=(0, (4, 2)), zorder=4)
+    ax.add_patch(Arc(g([0, 0]), Lc(d0), Lc(d0), theta1=math.degrees(th_f) - 60, theta2=math.degrees(th_f) + 60,
+                     color="#e06a1b", lw=4, zorder=5))
+    # the force the plate receives from the pin, just beyond the outline along its direction
+    r0 = _finite(geo.reach[0], size)
+    a0, a1 = g(u * (r0 + 0.25 * d0)), g(u * (r0 + 1.6 * d0))
     ax.add_patch(FancyArrowPatch(a0, a1, arrowstyle="-|>,head_length=9,head_width=5", lw=2.6, color=LOAD,
                                  zorder=6))
-    ux, uy = math.cos(th), math.sin(th)
     mid = (np.asarray(a0) + np.asarray(a1)) / 2
-    px, py = (-uy, ux) if ux >= -1e-9 else (uy, -ux)  # beside the arrow, on its upper side
-    ax.annotate(f"F = {fmt(convert(f, 'force', units))} {fu}\nat {math.degrees(th):.1f}°", mid,
+    px, py = (-u[1], u[0]) if u[0] >= -1e-9 else (u[1], -u[0])
+    off = math.degrees(float(geo.angle[0]))
+    ax.annotate(f"F = {fmt(convert(f, 'force', units))} {fu}\nat {math.degrees(th_f) % 360:.1f}° from +x"
+                + (f"\n{abs(off):.1f}° off the lug axis" if plate.axis is not None else ""), mid,
                 xytext=(12 * px, 12 * py), textcoords="offset points", fontsize=8.5, fontweight="bold", zorder=7,
                 ha="left" if px > 0.3 else ("right" if px < -0.3 else "center"),
                 va="bottom" if py > 0.3 else ("top" if py < -0.3 else "center"))
-    # distances the checks use
-    a_edge = e - d0 / 2
-    c_edge = w / 2 - d0 / 2
-    _dim(ax, g([d0 / 2, 0]), g([e, 0]), f"a = {fmt(L(a_edge))}")
-    _dim(ax, g([-0.5 * d0 - 0.25 * w, d0 / 2]), g([-0.5 * d0 - 0.25 * w, w / 2]), f"c = {fmt(L(c_edge))}")
-    _dim(ax, g([-0.8 * back, -w / 2]), g([-0.8 * back, w / 2]), f"w = {fmt(L(w))}")
-    fig.legend(loc="upper right", fontsize=8, frameon=False)
+    # the distances the checks use, along and across the force
+    a_e, cp, cn = float(geo.a[0]), float(geo.c_pos[0]), float(geo.c_neg[0])
+    if math.isfinite(a_e):
+        _dim(ax, g(u * d0 / 2), g(u * (d0 / 2 + a_e)), f"a = {fmt(Lc(a_e))}")
+    back_at = -u * 0.5 * d0 - u * 0.25 * size
+    for sgn, cc, nm in ((1, cp, "c+"), (-1, cn, "c−")):
+        if math.isfinite(cc):
+            _dim(ax, g(back_at + sgn * perp * d0 / 2), g(back_at + sgn * perp * (d0 / 2 + cc)),
+                 f"{nm} = {fmt(Lc(cc))}")
+    handles = [Line2D([], [], color=red, lw=2.4, label="net section across the force"),
+               Line2D([], [], color="#1f5fa8", lw=2.4, ls=(0, (4, 2)), label="shear-out planes beyond the hole"),
+               Line2D([], [], color="#e06a1b", lw=4, label="bearing on the hole"),
+               Line2D([], [], color=BODY, lw=1.0, ls=(0, (6, 3)),
+                      label="base section (joins its body)" if has_base else "cut of the drawing (no base given)")]
+    if plate.axis is not None:
+        handles.append(Line2D([], [], color="#555555", lw=0.9, ls=(0, (8, 2, 2, 2)), label="lug axis"))
+    fig.legend(handles=handles, loc="upper right", fontsize=8, frameon=False)
     m = plate.material
-    info = (f"pin {pname}, plate '{part}', case '{case}'\n"
-            f"t = {fmt(L(t))} {lu}, hole d0 = {fmt(L(d0))} {lu}\n"
-            f"pin d = {fmt(L(d))} {lu}, end e = {fmt(L(e))} {lu} ({plate.shape})\n"
+    cheeks = f" ({len(plates)} plates, t total)" if len(plates) > 1 else ""
+    info = (f"pin {pname}, part '{label}', case '{case}'\n"
+            f"t = {fmt(Lc(t))} {lu}{cheeks}\nhole d0 = {fmt(Lc(d0))} {lu}, pin d = {fmt(Lc(d))} {lu}\n"
+            f"outline: {outline.kind}" + (", axis as given" if plate.axis is not None else
+                                          ", axis along the force") + "\n"
             f"{m.name if m else '-'}\n"
-            f"lengths in {lu}; drawn along the\nreal direction of the force\n"
-            f"F: the force the pin puts on the plate")
-    fig.text(1 - 2.7 / fig.get_figwidth(), 0.04, info, fontsize=8, va="bottom", ha="left")
-    pad = 0.12 * float(max(hi - lo))
-    ax.set_xlim(lo[0] - pad, hi[0] + pad)
-    ax.set_ylim(lo[1] - pad, hi[1] + pad)
-    ax.set_xlabel(f"x [{lu}]")
+            f"lengths in {lu}, as in the frame\nF: the force the pin puts\non the plate"
+            + ("" if math.isfinite(geo.reach[0]) else "\n(toward the body: no free\nedge ahead of the pin)"))
+    fig.text(1 - 2.8 / fig.get_figwidth(), 0.04, info, fontsize=8, va="bottom", ha="left")
+    lo_d, hi_d = Lc(lo), Lc(hi)
+    pad = 0.14 * float(max(hi_d - lo_d))
+    ax.set_xlim(lo_d[0] - pad, hi_d[0] + pad)
+    ax.set_ylim(lo_d[1] - pad, hi_d[1] + pad)
+    ax.set_xlabel(f"x [{lu}] from the hole centre")
     ax.set_ylabel(f"y [{lu}]")
-    ax.set_title(f"Governing lug: {pname} {part}, {c['check'][row]} (u = {c['utilization'][row]:.3f})")
+    ax.set_title(f"Governing lug: {pname} {label}, {c['check'][row]} (u = {c['utilization'][row]:.3f})")
     return _png(fig)
+
+
+def _finite(x: float, fallback: float) -> float:
+    return float(x) if math.isfinite(x) else fallback
 
 
 def _dim(ax, p0, p1, text):
