@@ -20,9 +20,11 @@ import sys
 from html.parser import HTMLParser
 from pathlib import Path
 
+import numpy as np
 import pytest
 
 import pinchk
+from pinchk import lug
 from pinchk.progress import Progress
 from pinchk.report import CAUTION, render, write_report
 from pinchk.report.common import convert, fmt, unit_of, units_of
@@ -140,8 +142,8 @@ def test_html_parses_with_its_structure(gantry_html):
         assert any(want in t for t in h2), want
     assert h2[0].endswith("Verdict") and "Summary" in h2[1]  # the verdict and the summary come first
     assert len(d.tables) >= 10
-    # three pictures, inline as PNG: self-contained, nothing fetched
-    assert len(d.imgs) == 3
+    # four pictures (frame, lug, load-angle sweep, utilizations), inline as PNG: self-contained, nothing fetched
+    assert len(d.imgs) == 4
     for img in d.imgs:
         head, _, data = img["src"].partition(",")
         assert head == "data:image/png;base64"
@@ -154,8 +156,11 @@ def test_every_demo_gives_a_whole_html_report(demo):
     text = render(demo, "html", date=DATE)
     d = parse(text)
     assert d.errors == [] and d.stack == []
-    # the frame (when the job has one), the governing lug and the utilizations
-    want = (1 if demo.job.bodies or demo.job.links else 0) + 2
+    # the frame (when the job has one), the governing lug and its load-angle sweep, the utilizations
+    from pinchk.report.figures import governing_plate_row, governing_sweep
+
+    want = ((1 if demo.job.bodies or demo.job.links else 0) + (governing_plate_row(demo) is not None)
+            + (governing_sweep(demo) is not None) + 1)
     assert len(d.imgs) == want
     assert sorted(_html_rows(d)) == sorted(expected_rows(demo))
     plain = html.unescape(text)
@@ -263,7 +268,7 @@ def test_markdown_written_with_its_pictures_beside_it(gantry, tmp_path):
     out = tmp_path / "calc.md"
     paths = write_report(gantry, "md", str(out), date=DATE)
     names = sorted(Path(p).name for p in paths)
-    assert names == ["calc.frame.png", "calc.lug.png", "calc.md", "calc.utilization.png"]
+    assert names == ["calc.frame.png", "calc.lug.png", "calc.md", "calc.sweep.png", "calc.utilization.png"]
     md = out.read_text(encoding="utf-8")
     for n in [n for n in names if n.endswith(".png")]:
         assert f"]({n})" in md
@@ -480,7 +485,7 @@ def test_cli_never_writes_over_the_job_file(tmp_path):
         else:
             assert r.returncode == 0, r.stderr
     assert job.read_bytes() == GANTRY.read_bytes()
-    assert sorted(os.listdir(tmp_path)) == ["job.frame.png", "job.lug.png", "job.md", "job.toml",
+    assert sorted(os.listdir(tmp_path)) == ["job.frame.png", "job.lug.png", "job.md", "job.sweep.png", "job.toml",
                                             "job.utilization.png"]
 
 
@@ -491,7 +496,7 @@ def test_cli_html_report(tmp_path):
     assert r.returncode == 0, r.stderr
     assert r.stderr == ""  # stderr is no terminal here: no progress
     d = parse(out.read_text(encoding="utf-8"))
-    assert d.errors == [] and len(d.imgs) == 3
+    assert d.errors == [] and len(d.imgs) == 4
 
 
 def test_other_views_do_not_import_matplotlib():
@@ -550,7 +555,7 @@ def test_a_failing_job_reads_as_failing(tmp_path):
     assert not res.passed
     text = render(res, "html", date=DATE)
     d = parse(text)
-    assert d.errors == [] and len(d.imgs) == 3
+    assert d.errors == [] and len(d.imgs) == 4
     assert 'class="verdict fail"' in text and "FAIL:" in text
     n_fail = sum(1 for r in res.rows() if r["status"] == "FAIL")
     cells = [r for t in d.tables if t["cls"] == "checks" for r in t["rows"] if r[-1] == "FAIL"]
@@ -583,3 +588,53 @@ def test_utilization_chart_keeps_to_the_highest(gantry, monkeypatch):
     small = figures.bars_figure(gantry)
     monkeypatch.setattr(figures, "MAX_BARS", 40)
     assert small[:8] == b"\x89PNG\r\n\x1a\n" and len(small) < len(figures.bars_figure(gantry))
+
+
+# ------------------------------------------------------------------------------- joints in the report
+BOOM = ROOT / "examples" / "boom_head_joint.toml"
+
+
+def test_joint_results_are_in_the_report():
+    """The boom demo's stack shears per plane, governing sections, plate geometry along the force, pin axial
+    force and sweeps are all in the HTML, with the numbers of the results (the same formatting as the tables)."""
+    from pinchk.report.common import convert, fmt, units_of
+
+    res = pinchk.run(pinchk.load_job(str(BOOM)))
+    plain = html.unescape(render(res, "html", date=DATE))
+    units = units_of(res)
+    for name, st in res.stacks.items():
+        for j, _ in enumerate(res.solution.cases):
+            planes = " / ".join(fmt(convert(v, "force", units)) for v in st.plane_shear[j])
+            assert planes in plain
+            assert st.shear_cause(j) in plain and st.moment_cause(j) in plain
+    for (pin, part), g in res.geometry.items():
+        assert f"{pin}</td><td>{part}" in render(res, "html", date=DATE) or part in plain
+        for a in g["angle"]:
+            assert f"{np.degrees(a):.1f}" in plain
+    assert "5.6 Force along each pin" in plain and "5.7 Load-angle sweep" in plain
+    for sw in res.sweeps:
+        u, a, _ = sw.peak()
+        assert f"{u:.3f}" in plain
+    assert "base weak-axis bending" in plain and "Mz,Ed = " in plain  # the base check, worked
+    assert "ΣH = " in plain  # the retainer check, worked
+
+
+@pytest.mark.parametrize("outline", [
+    lug.Outline("round", width=0.08, end=0.05),  # arc radius over half the width: flattened sides
+    lug.Outline("round", width=0.12, end=0.04, base=0.1),  # arc radius under half the width: shoulders
+    lug.Outline("round", width=0.08, end=0.05, centre=(0.02, 0.0), base=0.06),  # arc about another point
+    lug.Outline("square", width=0.07, end=0.05, base=0.08),
+    lug.Outline("polygon", vertices=((-0.05, -0.04), (0.03, -0.04), (0.06, 0.0), (0.03, 0.04), (-0.05, 0.04))),
+])
+def test_the_lug_drawing_follows_the_exact_outline(outline):
+    """The drawn outline meets every ray from the hole centre where pinchk.lug's exact ray intersection does."""
+    from pinchk.report.figures import _ray_exit, outline_polygon
+
+    poly, _ = outline_polygon(outline, back=0.2, n=2001)
+    th = np.radians(np.arange(0.0, 360.0, 7.0))
+    u = np.column_stack([np.cos(th), np.sin(th)])
+    want = outline.reach(u)
+    for k in range(len(th)):
+        got = _ray_exit(poly, np.zeros(2), u[k])
+        if np.isfinite(want[k]) and want[k] * u[k, 0] > -0.2:  # not beyond where the drawing cuts the sides
+            assert got == pytest.approx(want[k], abs=2e-5), np.degrees(th[k])

@@ -19,6 +19,7 @@ from __future__ import annotations
 
 import base64
 import datetime as _dt
+import math
 import os
 
 import numpy as np
@@ -122,7 +123,8 @@ def context(results, date: str | None = None, pictures: dict[str, tuple[str, str
             "plates": [{"part": part, "member": q.member, "t": _L(q.thickness, units), "gap": _L(q.gap, units),
                         "hole": _L(q.hole, units), "width": _L(q.width, units), "end": _L(q.end, units),
                         "shape": q.shape, "material": q.material.name if q.material else "not checked",
-                        "share": "by thickness" if q.share is None else f"{q.share:g}", "en_type": q.en_type}
+                        "share": "by thickness" if q.share is None else f"{q.share:g}", "en_type": q.en_type,
+                        "detail": _plate_detail(q, units)}
                        for q, part in zip(p.stack, parts, strict=False)],
         })
 
@@ -150,9 +152,36 @@ def context(results, date: str | None = None, pictures: dict[str, tuple[str, str
     stacks = []
     for name, st in results.stacks.items():
         for j, cs in enumerate(sol.cases):
+            planes = " / ".join(fmt(convert(v, "force", units)) for v in st.plane_shear[j])
             stacks.append({"pin": name, "case": cs, "v": fmt(convert(st.shear[j], "force", units)),
+                           "planes": planes or "-", "plane": f"{int(st.shear_plane[j]) + 1}-{int(st.shear_plane[j]) + 2}"
+                           if st.plane_shear.shape[1] else "-",
+                           "shear_cause": st.shear_cause(j) if st.plane_shear.shape[1] else "-",
                            "m": fmt(convert(st.moment[j], "moment", units)),
-                           "at": fmt(convert(st.moment_at[j], "length", units))})
+                           "at": fmt(convert(st.moment_at[j], "length", units)),
+                           "moment_cause": st.moment_cause(j), "model": st.model})
+    geometry = []
+    for (pn, part), gg in results.geometry.items():
+        for j, cs in enumerate(sol.cases):
+            geometry.append({"pin": pn, "part": part, "case": cs,
+                             "angle": f"{math.degrees(float(gg['angle'][j])):.1f}",
+                             "axis": "as given" if _has_axis(job, pn, part) else "along the force",
+                             "a": _len_or_body(gg["a"][j], units), "c_pos": _len_or_body(gg["c_pos"][j], units),
+                             "c_neg": _len_or_body(gg["c_neg"][j], units)})
+    pin_axial = [{"pin": pn, "case": cs, "force": fmt(convert(float(a[j]), "force", units)),
+                  "retainer": "-" if job.pins[pn].retainer is None else
+                  fmt(convert(job.pins[pn].retainer, "force", units))}
+                 for pn, a in results.pin_axial.items() for j, cs in enumerate(sol.cases)]
+    sweeps = []
+    for sw in results.sweeps:
+        u_pk, a_pk, k_pk = sw.peak()
+        worst = np.nanmax(np.where(np.isnan(sw.case_util), -np.inf, sw.case_util), axis=0) if sw.case_util.size \
+            else np.zeros(0)
+        sweeps.append({"pin": sw.pin, "part": sw.part, "force": fmt(convert(sw.force, "force", units)),
+                       "axis": "along the force" if sw.axis_deg is None else f"{sw.axis_deg:.1f}",
+                       "peak": f"{u_pk:.3f}", "peak_band": _band(u_pk), "at": f"{a_pk:.0f}", "check": k_pk,
+                       "cases": "; ".join(f"{cs} {a:.0f}°: {u:.3f}" for cs, a, u in
+                                          zip(sw.cases, sw.case_angle_deg, worst, strict=True))})
 
     info = job.info
     method = results.method + (f" ({results.variant})" if results.variant else "")
@@ -168,7 +197,8 @@ def context(results, date: str | None = None, pictures: dict[str, tuple[str, str
         "summary": [row_view(i) for i in governing_by_check(results)],
         "factors": factors, "materials": materials, "bodies": bodies, "pins": pins, "links": links,
         "supports": supports, "loads": loads, "cases": cases, "forces": forces, "reactions": reactions,
-        "link_forces": link_forces, "stacks": stacks, "solver": sol.solver,
+        "link_forces": link_forces, "stacks": stacks, "geometry": geometry, "pin_axial": pin_axial,
+        "sweeps": sweeps, "solver": sol.solver,
         "residual": f"{sol.residual:.1e}",
         "warnings": [*getattr(sol, "warnings", ()), *getattr(results, "warnings", ())],
         "combination_lines": combination_lines(results), "combined": bool(getattr(job, "combinations", None)),
@@ -181,6 +211,53 @@ def context(results, date: str | None = None, pictures: dict[str, tuple[str, str
         "units": {"force": fu, "moment": mu, "length": unit_of("length", units), "stress": unit_of("stress", units)},
         "bands": _bands(),
     }
+
+
+def _has_axis(job, pin: str, part: str) -> bool:
+    from ..joint import parts_of
+
+    p = job.pins[pin]
+    ix = next((q.plates for q in parts_of(p) if q.label == part), ())
+    return any(p.stack[i].axis is not None for i in ix)
+
+
+def _len_or_body(v, units) -> str:
+    """A length, or a word where the outline sets no limit (the plate runs on into its body)."""
+    v = float(v)
+    return fmt(convert(v, "length", units)) if math.isfinite(v) else "into the body"
+
+
+def _plate_detail(q, units) -> str:
+    """The joint details of a plate beyond its basic sizes (outline, axis, group, bushing, lateral load)."""
+    out = []
+    o = q.outline
+    if o is not None:
+        if o.kind == "polygon":
+            out.append("polygon outline (s, n) " + ", ".join(
+                f"({fmt(convert(a, 'length', units))}, {fmt(convert(b, 'length', units))})" for a, b in o.vertices))
+        else:
+            out.append(f"{o.kind} outline, width {_L(o.width, units)}, "
+                       + ("end" if o.kind == "square" else "arc radius") + f" {_L(o.end, units)}"
+                       + (f" about ({fmt(convert(o.centre[0], 'length', units))}, "
+                          f"{fmt(convert(o.centre[1], 'length', units))})" if tuple(o.centre) != (0.0, 0.0) else "")
+                       + (f", base {_L(o.base, units)} behind the hole" if o.base is not None else ""))
+    if q.axis is not None:
+        out.append(f"axis {math.degrees(math.atan2(q.axis[1], q.axis[0])) % 360:.1f}° from +x")
+    if q.group is not None:
+        out.append(f"group '{q.group}'")
+    if q.bushing is not None:
+        b = q.bushing
+        out.append(f"bushing OD {_L(b.outer, units)}" + (f", {b.material.name}" if b.material else ""))
+    lat = q.lateral
+    if lat is not None:
+        if lat.fraction is not None:
+            out.append(f"lateral load {lat.fraction:.3g} × in-plane force")
+        else:
+            out.append("lateral load per case: " + ", ".join(
+                f"{k} {fmt(convert(v, 'force', units))} {unit_of('force', units)}" for k, v in lat.per_case.items()))
+    if q.stiffened:
+        out.append("stiffened")
+    return "; ".join(out) or "-"
 
 
 def _band(u: float) -> int:

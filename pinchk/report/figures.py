@@ -614,6 +614,69 @@ def _bars(results) -> bytes:
     return _png(fig)
 
 
+# ---------------------------------------------------------------------------------------------- sweep
+SWEEP_COLOURS = ("#1b4f8a", "#c0392b", "#2a9d5c", "#8e44ad", "#d68910", "#16a0a0", "#6d4c2f", "#c2185b",
+                 "#5d6d7e", "#7cb342")
+
+
+def governing_sweep(results):
+    """The load-angle sweep (pinchk.sweep.LugSweep) of the governing lug, or None."""
+    r = governing_plate_row(results)
+    if r is None:
+        return None
+    key = (results.columns["pin"][r], results.columns["part"][r])
+    return next((sw for sw in results.sweeps if (sw.pin, sw.part) == key), None)
+
+
+def sweep_figure(results) -> bytes:
+    """The governing lug's load-angle sweep as a polar plot: the utilization of each check as the lug's
+    largest force turns through 360° (angles in the frame, from +x), utilization 1 dashed, the direction
+    of each load case marked, the lug axis drawn."""
+    with _Styled():
+        return _sweep(results, governing_sweep(results))
+
+
+def _sweep(results, sw) -> bytes:
+    units = units_of(results)
+    fu = unit_of("force", units)
+    fig = _figure(8.4, 5.6, layout=None)
+    ax = fig.add_axes((0.06, 0.1, 0.5, 0.78), projection="polar")
+    th = np.radians(np.append(sw.angle_deg, sw.angle_deg[:1] + 360.0))
+    top = 1.0
+    for i, name in enumerate(sw.checks):
+        u = np.append(sw.util[i], sw.util[i][:1])
+        if not np.any(np.isfinite(u)):
+            continue
+        top = max(top, float(np.nanmax(u)))
+        ax.plot(th, u, color=SWEEP_COLOURS[i % len(SWEEP_COLOURS)], lw=1.4,
+                ls="-" if i < len(SWEEP_COLOURS) else (0, (4, 2)), label=name)
+    ring = np.linspace(0, 2 * np.pi, 361)
+    ax.plot(ring, np.ones_like(ring), color=BANDS[-1][1], lw=1.2, ls=(0, (5, 3)), label="utilization 1 (limit)")
+    worst = np.nanmax(np.where(np.isnan(sw.case_util), -np.inf, sw.case_util), axis=0)
+    ax.plot(np.radians(sw.case_angle_deg), worst, ls="", marker="o", mfc="white", mec=LOAD, mew=1.4, ms=7,
+            label="direction of each load case\n(its worst check at the swept force)")
+    for cs, a, u in zip(sw.cases, sw.case_angle_deg, worst, strict=True):
+        ax.annotate(cs, (math.radians(a), u), xytext=(6, 6), textcoords="offset points", fontsize=7.5,
+                    bbox={"boxstyle": "round,pad=0.15", "fc": "white", "ec": "none", "alpha": 0.8})
+    rmax = 1.12 * top
+    if sw.axis_deg is not None:
+        ax.annotate("", xy=(math.radians(sw.axis_deg), 0.55 * rmax), xytext=(0, 0),
+                    arrowprops={"arrowstyle": "-|>", "color": "#555555", "lw": 1.2})
+        ax.plot([], [], color="#555555", lw=1.2, label=f"lug axis, {sw.axis_deg:.1f}°")
+    ax.set_ylim(0, rmax)
+    ax.set_thetagrids(range(0, 360, 30))
+    ax.tick_params(labelsize=7.5)
+    u_pk, a_pk, k_pk = sw.peak()
+    ax.set_title(f"Load-angle sweep of {sw.pin} {sw.part}: |F| = {fmt(convert(sw.force, 'force', units))} {fu} "
+                 "turned through 360°", loc="left", fontsize=10, pad=18)
+    fig.legend(loc="upper left", bbox_to_anchor=(0.6, 0.88), fontsize=7.5, frameon=False,
+               title="utilization of each check\n(radius; angle of the force\nfrom +x, counter-clockwise)",
+               title_fontsize=8, alignment="left", handles=ax.get_legend_handles_labels()[0])
+    fig.text(0.6, 0.08, f"peak {u_pk:.3f} ({k_pk}) at {a_pk:.0f}°\n"
+             "ULS checks at the lug's largest force;\nthe load cases' own forces may be smaller", fontsize=8)
+    return _png(fig)
+
+
 def all_figure_captions(results) -> dict[str, str]:
     """The pictures the report has for these results: key -> caption (the frame, the governing lug, the
     utilization chart)."""
@@ -627,6 +690,10 @@ def all_figure_captions(results) -> dict[str, str]:
         c = results.columns
         out["lug"] = (f"The governing lug, pin {c['pin'][r]} plate '{c['part'][r]}', drawn along the direction "
                       f"of its force in case '{c['case'][r]}', with its failure planes")
+    sw = governing_sweep(results)
+    if sw is not None:
+        out["sweep"] = (f"Load-angle sweep of the governing lug, pin {sw.pin} '{sw.part}': the utilization of each "
+                        "check as its largest force turns through 360°, with the load cases' directions")
     if len(results):
         out["utilization"] = "Utilization of every pin and plate (its governing check and case)"
     return out
@@ -636,7 +703,7 @@ def all_figures(results, progress=None) -> dict[str, tuple[str, bytes]]:
     """Every picture of the report: key -> (caption, PNG bytes)."""
     make = {"frame": lambda: frame_figure(results),
             "lug": lambda: lug_figure(results, governing_plate_row(results)),
-            "utilization": lambda: bars_figure(results)}
+            "sweep": lambda: sweep_figure(results), "utilization": lambda: bars_figure(results)}
     out: dict[str, tuple[str, bytes]] = {}
     for key, caption in all_figure_captions(results).items():
         out[key] = (caption, make[key]())
