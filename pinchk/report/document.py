@@ -154,8 +154,7 @@ def context(results, date: str | None = None, pictures: dict[str, tuple[str, str
         for j, cs in enumerate(sol.cases):
             planes = " / ".join(fmt(convert(v, "force", units)) for v in st.plane_shear[j])
             stacks.append({"pin": name, "case": cs, "v": fmt(convert(st.shear[j], "force", units)),
-                           "planes": planes or "-", "plane": f"{int(st.shear_plane[j]) + 1}-{int(st.shear_plane[j]) + 2}"
-                           if st.plane_shear.shape[1] else "-",
+                           "planes": planes or "-",
                            "shear_cause": st.shear_cause(j) if st.plane_shear.shape[1] else "-",
                            "m": fmt(convert(st.moment[j], "moment", units)),
                            "at": fmt(convert(st.moment_at[j], "length", units)),
