@@ -23,7 +23,7 @@ capacity as expressions in those names::
 A term is (symbol, kind, values): the symbol as printed, the kind of figure (as ``Check.kind``) and the
 SI values, one per row or a scalar. ``{symbol}`` in an expression is replaced by that row's value in the
 output units, and the report appends "= result". Write the arithmetic out (×, /, +, −, √(…), π, min(…),
-(…)², (…)³): tests/test_report.py evaluates every expression and requires the check's own demand and
+(…)², (…)³): tests/test_calc_report.py evaluates every expression and requires the check's own demand and
 capacity from it. Both are optional: a check without them is reported with its formula, demand and
 capacity only. A new method only has to follow this pattern (docs/report.md).
 """
