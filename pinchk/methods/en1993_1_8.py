@@ -17,7 +17,7 @@ from __future__ import annotations
 import numpy as np
 
 from .base import make_check as _check
-from .base import term
+from .base import secured_check, term
 
 NAME = "EN 1993-1-8"
 EDITION = "EN 1993-1-8:2005 (with EN 1993-1-1:2005 for γM0), recommended partial factors"
@@ -99,6 +99,7 @@ def pin_checks(P, f, variant=None):
         _check("pin bending (serviceability)", "EN 1993-1-8 Table 3.10: MRd,ser = 0.8 Wel fyp / γM6,ser",
                "moment", M, M_Rd_ser, f"γM6,ser = {g6:g}", P["ser"], terms=(t_M, t_d, t_fyp, t_g6),
                worked=("MEd,ser = {MEd}", "MRd,ser = 0.8 × π ({d})³ / 32 × {fyp} / {γM6,ser}")),
+        secured_check("EN 1993-1-8 §3.13.1: a pin at risk of becoming loose should be secured", P),
     ]
 
 
