@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import gc
 from dataclasses import dataclass, field
+from itertools import repeat
 
 import numpy as np
 import numpy.typing as npt
@@ -11,14 +12,14 @@ import numpy.typing as npt
 from . import bolts, joint
 from .combine import row_factors
 from .frame import FrameSolution
-from .methods import METHODS, factors_for, make_check
+from .methods import METHODS, factors_for, make_check, term
 from .methods.lug_base import BASE_CHECKS
 from .model import Job
 from .stack import StackResult, solve_stack
 from .sweep import lug_sweeps
 
 COLUMNS = ("pin", "part", "check", "case", "demand", "capacity", "kind", "utilization", "status", "clause",
-           "formula", "factors", "note")
+           "formula", "factors", "note", "worked_demand", "worked_capacity", "terms")
 
 
 @dataclass(frozen=True)
@@ -176,6 +177,13 @@ def _check_table(blocks, cases, dropped: list[int]) -> dict[str, object]:
             txt["note"][s] = [ch.note] * k
         else:
             txt["note"][s] = _note_text(ch.note, np.asarray(notes, dtype=object)[row])
+        txt["worked_demand"][s] = [ch.worked[0]] * k
+        txt["worked_capacity"][s] = [ch.worked[1]] * k
+        # the formula's named inputs, row by row: ((symbol, kind, SI value), ...), zipped in C
+        per_term = [zip(repeat(sym, k), repeat(kd, k),
+                        np.broadcast_to(np.asarray(v, float), mask.shape)[mask].tolist(), strict=False)
+                    for sym, kd, v in ch.terms]
+        txt["terms"][s] = list(zip(*per_term, strict=True)) if per_term else [()] * k
         at += k
     columns: dict[str, object] = {}
     for key, pos in (("demand", 2), ("capacity", 3), ("utilization", 4)):
@@ -300,8 +308,12 @@ def run_checks(job: Job, sol: FrameSolution) -> Results:
         blocks.append(([make_check("pin axial force (retainer)", "retainer capacity as given in the job: "
                          "axial force ≤ retainer capacity", "force",
                          np.concatenate([pin_axial[n] for n, _ in ret]), np.repeat([r for _, r in ret], nc), "",
-                         None, "every lateral load on the pin's lugs taken through the pin to its retainer")],
+                         None, "every lateral load on the pin's lugs taken through the pin to its retainer",
+                         terms=(term("P", "force", np.concatenate([pin_axial[n] for n, _ in ret])),
+                                term("Rret", "force", np.repeat([r for _, r in ret], nc))),
+                         worked=("ΣH = {P}", "Rret = {Rret}"))],
              [(n, "pin retainer") for n, _ in ret], np.full(len(ret) * nc, "", dtype=object)))
+
     columns = check_table(blocks, cases, dropped)
 
     notes = [f"{n}: {st.share_note}" for n, st in stacks.items()
