@@ -128,6 +128,18 @@ def _note_text(note: str, row_notes) -> list[str]:
     return joined[inv].tolist()
 
 
+def _term_tuples(sym: str, kd: str, v, mask, k: int, made: dict) -> list[tuple]:
+    """(sym, kd, value) for each kept row of a check's named input, made once per (input, mask)."""
+    key = (sym, kd, id(v), np.packbits(mask).tobytes())
+    hit = made.get(key)
+    if hit is not None and hit[0] is v:
+        return hit[1]
+    vals = np.broadcast_to(np.asarray(v, float), mask.shape)[mask].tolist()
+    out = list(zip(repeat(sym, k), repeat(kd, k), vals, strict=False))
+    made[key] = (v, out)  # v kept, so its id stays its own while the table is built
+    return out
+
+
 def _check_table(blocks, cases, dropped: list[int]) -> dict[str, object]:
     nc = len(cases)
     case_arr = np.array(cases, dtype=object)
@@ -153,6 +165,7 @@ def _check_table(blocks, cases, dropped: list[int]) -> dict[str, object]:
                 util = np.where(cap > 0, dem / np.where(cap > 0, cap, 1.0), np.inf)
             own_note = notes is None or any(w in ch.name for w in joint.OUTLINE_FREE)
             parts.append((ch, mask, dem, cap, util, pins_, names, stack_text, None if own_note else notes))
+    made: dict[tuple, tuple] = {}  # (input, rows kept) -> (the input, its row tuples)
     total = sum(len(p[4]) for p in parts)
     txt = {k: [None] * total for k in COLUMNS if k not in ("demand", "capacity", "utilization")}
     at = 0
@@ -179,10 +192,9 @@ def _check_table(blocks, cases, dropped: list[int]) -> dict[str, object]:
             txt["note"][s] = _note_text(ch.note, np.asarray(notes, dtype=object)[row])
         txt["worked_demand"][s] = [ch.worked[0]] * k
         txt["worked_capacity"][s] = [ch.worked[1]] * k
-        # the formula's named inputs, row by row: ((symbol, kind, SI value), ...), zipped in C
-        per_term = [zip(repeat(sym, k), repeat(kd, k),
-                        np.broadcast_to(np.asarray(v, float), mask.shape)[mask].tolist(), strict=False)
-                    for sym, kd, v in ch.terms]
+        # the formula's named inputs, row by row: ((symbol, kind, SI value), ...), zipped in C; the
+        # checks of a part share most inputs and masks, so each (input, mask) is made into tuples once
+        per_term = [_term_tuples(sym, kd, v, mask, k, made) for sym, kd, v in ch.terms]
         txt["terms"][s] = list(zip(*per_term, strict=True)) if per_term else [()] * k
         at += k
     columns: dict[str, object] = {}
