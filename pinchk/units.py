@@ -37,6 +37,11 @@ G0 = 9.80665
 # the parser work for long (at most 40 characters, digits, letters, space and . + - * / ^ ( ) only).
 _MAX_LEN = 40
 _ALLOWED = re.compile(r"^[0-9A-Za-z.+\-*/^() µ°]+$")
+# Powers are where a short string can cost the most (pint evaluates "m^9^9^9" as an integer power
+# with hundreds of millions of digits): an exponent is a signed integer of at most two digits, not
+# itself raised to a power.
+_POWER = re.compile(r"\^|\*\*")
+_SMALL_POWER = re.compile(r"(?:\^|\*\*)[+-]?\d{1,2}(?![\d.^(]|\*\*)")
 
 
 class QuantityError(ValueError):
@@ -46,6 +51,12 @@ class QuantityError(ValueError):
 @lru_cache(maxsize=256)
 def _unit_factor(unit_text: str, dim: str) -> float:
     """SI factor of a unit expression, checked for dimension (cached: a job repeats its units)."""
+    packed = "".join(unit_text.split())
+    if len(_POWER.findall(packed)) != len(_SMALL_POWER.findall(packed)):
+        raise QuantityError(
+            f"'{unit_text}' has a power pinchk does not read: write a power as ^2 or ^-1 (a whole number "
+            f"of at most two digits, not raised again), for example {_example(dim)}"
+        )
     q = ureg.Quantity(1.0, unit_text)
     try:
         return float(q.to(SI_UNIT[dim]).magnitude)
