@@ -201,10 +201,44 @@ def parse_job(data: dict[str, Any], path: str = "<job>", text: str = "") -> Job:
     supports = _supports(r, data, bodies, pins_partial)
     loads = _loads(r, data, bodies, pins_partial, cases)
     pins = _pins_stack(r, pin_tables, pins_partial, links, supports, loads, job_materials)
+    _names_and_connections(r, data)
 
     r.c.raise_if_any()
     return Job(path=path, title=title, method=method, output_units=output_units, bodies=bodies, pins=pins,
                links=links, supports=supports, loads=tuple(loads), cases=cases, info=info)
+
+
+def _names_and_connections(r: _Reader, data: dict) -> None:
+    """A pin's name must not be a body's or a link's; every body must be held by something.
+
+    Read from the raw tables, so a body whose pin or link has some other mistake is not reported
+    again as unconnected.
+    """
+    def names(kind: str) -> list[str]:
+        t = data.get(kind)
+        return [k for k, v in t.items() if isinstance(v, dict)] if isinstance(t, dict) else []
+
+    bodies, links = set(names("body")), set(names("link"))
+    for pin in names("pin"):
+        for other, kind in ((bodies, "body"), (links, "link")):
+            if pin in other:
+                r.bad(f"pin.{pin}", "", f"the name '{pin}' is used by a {kind} too; names of bodies, links "
+                      "and pins must be unique")
+    used: set[str] = set()
+    refs: list[object] = []
+    for kind, field in (("pin", "joins"), ("link", "ends"), ("support", "at")):
+        t = data.get(kind)
+        for v in (t.values() if isinstance(t, dict) else []):
+            if isinstance(v, dict):
+                ref = v.get(field)
+                refs += ref if isinstance(ref, list) else [ref]
+    for ref in refs:
+        if isinstance(ref, str) and "." in ref:
+            used.add(ref.partition(".")[0])
+    for body in names("body"):
+        if body not in used:
+            r.bad(f"body.{body}", "", f"body {body} is connected to nothing: no pin joins it, no link ends "
+                  "on it and no support holds it; join it to the structure or remove it")
 
 
 def _method(r: _Reader, data: dict) -> MethodChoice:
@@ -572,7 +606,11 @@ def _pins_stack(r: _Reader, pt: dict, frame: dict, links, supports, loads, own) 
                       f"members here: {', '.join(sorted(at_pin[name]))}")
                 member = None
             th = r.qty(pw, p, "thickness", "length", positive=True)
-            gap = r.qty(pw, p, "gap", "length", required=False, nonneg=True) or 0.0
+            gap = r.qty(pw, p, "gap", "length", required=False) or 0.0
+            if gap < 0:
+                r.bad(pw, "gap", f"a negative gap ({p['gap']!r}) would make this plate overlap the one before "
+                      "it; plates are listed in order along the pin and the gap is the clear space to the "
+                      "previous plate, zero or more")
             ph = r.qty(pw, p, "hole", "length", required=False, positive=True)
             ph = ph if ph is not None else hole
             if ph is not None and d is not None and ph < d:
