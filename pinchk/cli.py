@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import argparse
+import errno
 import os
 import sys
 import tempfile
@@ -44,7 +45,15 @@ def _write(path: str, text: str, protect: list[str]) -> None:
         if os.path.exists(q) and os.path.exists(real) and os.path.samefile(real, q):
             raise OSError(f"refusing to overwrite the input file {q}")
     folder = os.path.dirname(real) or "."
-    fd, tmp = tempfile.mkstemp(prefix=".pinchk-", dir=folder)
+    if os.path.isdir(real):
+        raise OSError(errno.EISDIR, "cannot write the output: the path is a folder; give a file name", path)
+    if not os.path.isdir(folder):
+        why = "is a file" if os.path.exists(folder) else "does not exist"
+        raise OSError(errno.ENOENT, f"cannot write the output: its folder {folder} {why}", path)
+    try:
+        fd, tmp = tempfile.mkstemp(prefix=".pinchk-", dir=folder)
+    except OSError as exc:
+        raise OSError(exc.errno, f"cannot write the output in {folder} ({exc.strerror})", path) from None
     try:
         with os.fdopen(fd, "w", encoding="utf-8", newline="") as fh:
             fh.write(text)
