@@ -376,7 +376,9 @@ def test_output_into_missing_folder(tmp_path, capsys):
     code = cli.main(["run", str(job), "--format", "json", "--output", str(target)])
     out = capsys.readouterr()
     assert code == 2 and "Traceback" not in out.err
-    assert "No such file or directory" in out.err
+    assert "cannot write the output" in out.err and "does not exist" in out.err
+    assert str(target) in out.err  # names the path the user gave, not a temporary file
+    assert ".pinchk-" not in out.err
     assert not target.exists()
 
 
@@ -399,7 +401,7 @@ def test_output_into_read_only_folder(tmp_path, capsys):
         code = cli.main(["run", str(job), "--format", "csv", "--output", str(target)])
         out = capsys.readouterr()
         assert code == 2 and "Traceback" not in out.err
-        assert "Permission denied" in out.err
+        assert "Permission denied" in out.err and str(target) in out.err
         assert os.listdir(folder) == []  # no temporary file left behind
     finally:
         folder.chmod(stat.S_IRWXU)
@@ -414,6 +416,7 @@ def test_output_onto_a_folder(tmp_path, capsys):
     code = cli.main(["run", str(job), "--output", str(folder)])
     out = capsys.readouterr()
     assert code == 2 and "Traceback" not in out.err
+    assert "the path is a folder" in out.err
     assert folder.is_dir() and os.listdir(folder) == []
     assert [p.name for p in tmp_path.iterdir() if p.name.startswith(".pinchk-")] == []
 
@@ -425,3 +428,16 @@ def test_output_onto_the_job_file(tmp_path, capsys):
     out = capsys.readouterr()
     assert code == 2 and "refusing to overwrite the input file" in out.err
     assert job.read_text(encoding="utf-8") == BASE
+
+
+def test_output_under_a_file(tmp_path, capsys):
+    """--output whose folder is a regular file (works as root too, where permissions do not bind)."""
+    job = tmp_path / "job.toml"
+    job.write_text(BASE, encoding="utf-8")
+    blocker = tmp_path / "notes.txt"
+    blocker.write_text("a file, not a folder")
+    code = cli.main(["run", str(job), "--output", str(blocker / "out.txt")])
+    out = capsys.readouterr()
+    assert code == 2 and "Traceback" not in out.err
+    assert "is a file" in out.err and str(blocker / "out.txt") in out.err
+    assert blocker.read_text() == "a file, not a folder"
