@@ -42,6 +42,9 @@ _ALLOWED = re.compile(r"^[0-9A-Za-z.+\-*/^() µ°]+$")
 # itself raised to a power.
 _POWER = re.compile(r"\^|\*\*")
 _SMALL_POWER = re.compile(r"(?:\^|\*\*)[+-]?\d{1,2}(?![\d.^(]|\*\*)")
+# Products of a few SI magnitudes must stay finite in double precision, so every magnitude read is
+# bounded; "1e306 t" is a finite number but its weight overflows to infinity.
+_MAX_SI = 1e30
 
 
 class QuantityError(ValueError):
@@ -141,7 +144,13 @@ def to_si(value: object, dim: str, default_unit: str | None = None) -> float:
         raise QuantityError(
             f"{unit_text!r} is not a unit pinchk knows ({type(exc).__name__}); write for example {_example(dim)}"
         ) from None
-    return number * factor
+    si = number * factor
+    if not math.isfinite(si) or abs(si) > _MAX_SI or 0 < abs(si) < 1 / _MAX_SI:
+        raise QuantityError(
+            f"{value!r} is outside the range pinchk computes with: between 1e-30 and 1e30 "
+            f"{SI_UNIT[dim]} (or zero); check the value and its unit"
+        )
+    return si
 
 
 def check_unit(unit_text: str, dim: str) -> str:
