@@ -8,6 +8,7 @@ from __future__ import annotations
 import difflib
 import math
 import os
+import re
 import tomllib
 from typing import Any
 
@@ -41,20 +42,32 @@ def suggest(word: str, choices) -> str:
     return f" (did you mean '{near[0]}'?)" if near else ""
 
 
+_HEADER = re.compile(r"^\s*(\[\[?)\s*([A-Za-z0-9_.\-+ ]+?)\s*(\]\]?)\s*(#.*)?$")
+
+
 def _line_of(text: str, table: str, field: str) -> int | None:
-    """Best-effort line number of ``field`` under a table header (tomllib keeps none)."""
+    """Best-effort line number of ``field`` in ``table`` (tomllib keeps none).
+
+    ``table`` is a dotted table name, or "NAME #k" for the k-th table of an array [[NAME]]; the field
+    is looked for from that table's header to the next header, and the header's line is given when
+    the field is not written there.
+    """
     lines = text.splitlines()
-    head = table.split("[")[0]
-    start = 0
+    head, _, nth = table.partition(" #")
+    head = head.split("[")[0].replace(" ", "")
+    want = int(nth) if nth.isdigit() else 1
+    headers = [(i, m.group(2).replace(" ", "")) for i, ln in enumerate(lines) if (m := _HEADER.match(ln))]
+    start = -1  # top-level keys lie before the first header
     if head:
-        for i, ln in enumerate(lines):
-            s = ln.strip().replace(" ", "")
-            if s in (f"[{head}]", f"[[{head}]]"):
-                start = i
-                break
-    for i in range(start, len(lines)):
+        seen = [i for i, name in headers if name == head]
+        if len(seen) < want:
+            return None
+        start = seen[want - 1]
+    stop = next((i for i, _ in headers if i > start), len(lines))
+    key = field.split(".")[0]
+    for i in range(start + 1, stop):
         s = lines[i].lstrip()
-        if field and (s.startswith(field + " ") or s.startswith(field + "=")):
+        if key and (s.startswith(key + " ") or s.startswith(key + "=")):
             return i + 1
     return start + 1 if head else None
 
