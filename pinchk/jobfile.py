@@ -16,7 +16,7 @@ from . import materials
 from .errors import Collector, InputError, Problem
 from .model import (GROUND, PIN_LOAD, Body, Case, Job, Link, Load, Material, MethodChoice, Pin, Place,
                     Plate, Support)
-from .units import G0, UNIT_SYSTEMS, QuantityError, check_unit, to_si
+from .units import G0, MIN_SIZE, UNIT_SYSTEMS, QuantityError, check_unit, to_si
 
 MAX_FILE_BYTES = 4 * 1024 * 1024  # a job file is text typed by a person; anything larger is refused
 
@@ -110,6 +110,10 @@ class _Reader:
             return None
         if positive and not v > 0:
             self.bad(table, field, f"must be greater than zero, got {data[field]!r}")
+            return None
+        if positive and v < MIN_SIZE:  # sizes divide: 1e-200 mm would make d**2 vanish
+            self.bad(table, field, f"{data[field]!r} is too small for pinchk to compute with "
+                     f"(at least {MIN_SIZE:g} in SI units); check the value and its unit")
             return None
         if nonneg and v < 0:
             self.bad(table, field, f"must not be negative, got {data[field]!r}")
@@ -279,6 +283,8 @@ def _method(r: _Reader, data: dict) -> MethodChoice:
                   f"factors: {', '.join(m.FACTORS)}")
         elif isinstance(v, bool) or not isinstance(v, (int, float)) or not math.isfinite(v) or v <= 0:
             r.bad("method.factors", k, f"a factor must be a finite number greater than zero, got {v!r}")
+        elif not 1e-3 <= v <= 1e3:  # a typo, not a factor: 1e308 made every capacity overflow
+            r.bad("method.factors", k, f"a factor must lie between 0.001 and 1000, got {v!r}")
         else:
             factors[k] = float(v)
     return MethodChoice(name, design, factors)

@@ -43,8 +43,10 @@ _ALLOWED = re.compile(r"^[0-9A-Za-z.+\-*/^() µ°]+$")
 _POWER = re.compile(r"\^|\*\*")
 _SMALL_POWER = re.compile(r"(?:\^|\*\*)[+-]?\d{1,2}(?![\d.^(]|\*\*)")
 # Products of a few SI magnitudes must stay finite in double precision, so every magnitude read is
-# bounded; "1e306 t" is a finite number but its weight overflows to infinity.
+# bounded ("1e306 t" is a finite number but its weight overflows to infinity); sizes, which divide,
+# are also bounded below (MIN_SIZE, applied by the job-file reader).
 _MAX_SI = 1e30
+MIN_SIZE = 1e-30
 
 
 class QuantityError(ValueError):
@@ -145,10 +147,10 @@ def to_si(value: object, dim: str, default_unit: str | None = None) -> float:
             f"{unit_text!r} is not a unit pinchk knows ({type(exc).__name__}); write for example {_example(dim)}"
         ) from None
     si = number * factor
-    if not math.isfinite(si) or abs(si) > _MAX_SI or 0 < abs(si) < 1 / _MAX_SI:
+    if not math.isfinite(si) or abs(si) > _MAX_SI:
         raise QuantityError(
-            f"{value!r} is outside the range pinchk computes with: between 1e-30 and 1e30 "
-            f"{SI_UNIT[dim]} (or zero); check the value and its unit"
+            f"{value!r} is beyond the range pinchk computes with (at most 1e30 {SI_UNIT[dim]}); "
+            "check the value and its unit"
         )
     return si
 
