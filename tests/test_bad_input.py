@@ -225,6 +225,12 @@ CASES = [
     ("NaN factor", edit('name = "EN 1993-1-8"', 'name = "EN 1993-1-8"\n[method.factors]\ngamma_M2 = nan'),
      ["a factor must be a finite number"]),
     ("NaN roller normal", edit("normal = [0, 1]", "normal = [nan, 1]"), ["a roller needs normal"]),
+    ("weight that overflows", edit("force = [0, -10]", 'mass = "1e306 t"'), ["beyond the range pinchk computes with"]),
+    ("absurd force", edit("force = [0, -10]", 'force = [0, "-1e300 kN"]'), ["beyond the range pinchk computes with"]),
+    ("vanishing thickness", edit("thickness = 20", 'thickness = "1e-300 mm"'),
+     ["too small for pinchk to compute with"]),
+    ("absurd factor", edit('name = "EN 1993-1-8"', 'name = "EN 1993-1-8"\n[method.factors]\ngamma_M0 = 1e308'),
+     ["a factor must lie between 0.001 and 1000"]),
     # --- structures statics cannot solve
     ("mechanism", edit('[support.right]\nat = "beam.B"\nkind = "roller"\nnormal = [0, 1]\n', ""),
      ["mechanism"]),
@@ -441,3 +447,23 @@ def test_output_under_a_file(tmp_path, capsys):
     assert code == 2 and "Traceback" not in out.err
     assert "is a file" in out.err and str(blocker / "out.txt") in out.err
     assert blocker.read_text() == "a file, not a folder"
+
+
+def _nth_line(text: str, header: str, k: int, key: str) -> int:
+    """1-based line of ``key`` in the k-th table under ``header`` (worked out here, independently)."""
+    lines = text.splitlines()
+    heads = [i for i, ln in enumerate(lines) if ln.strip() == header]
+    i = heads[k - 1] + 1
+    while not lines[i].startswith(key):
+        i += 1
+    return i + 1
+
+
+def test_problem_lines_point_at_the_field(tmp_path, capsys):
+    """The line given for a problem in an array of tables is that table's line, not a same-named key
+    elsewhere (the [units] table also has a 'force' line)."""
+    text = edit("force = [0, -10]", 'force = [0, "10 MPa"]', "gap = 2", "gap = -1")
+    code, out, _ = run_cli(tmp_path, text, capsys=capsys)
+    assert code == 2
+    assert f"line {_nth_line(text, '[[load]]', 1, 'force')}, table [load #1], field 'force'" in out.err
+    assert f"line {_nth_line(text, '[[pin.P1.plate]]', 3, 'gap')}, table [pin.P1.plate #3], field 'gap'" in out.err
