@@ -27,7 +27,7 @@ KEYS = {
     "method": {"name", "design", "factors"},
     "material": {"fy", "fu", "E", "source"},
     "body": {"points", "description"},
-    "pin": {"joins", "diameter", "hole", "material", "replaceable", "rotates", "plate", "description"},
+    "pin": {"joins", "at", "diameter", "hole", "material", "replaceable", "rotates", "plate", "description"},
     "plate": {"member", "thickness", "material", "width", "end", "shape", "gap", "hole", "share", "en_type"},
     "link": {"ends", "kind", "description"},
     "support": {"at", "kind", "normal", "description"},
@@ -396,18 +396,24 @@ def _pins_frame(r: _Reader, pt: dict, bodies: dict[str, Body]) -> dict[str, dict
             continue
         r.name_ok(where, name)
         r.keys(where, t, "pin")
-        joins = t.get("joins")
-        if not isinstance(joins, list) or not joins:
-            r.bad(where, "joins", "missing: list the body points this pin joins, e.g. joins = [\"boom.C\", \"strut.C\"]")
+        joins = t.get("joins", [])
+        if not isinstance(joins, list) or not (joins or "at" in t):
+            r.bad(where, "joins", "missing: list the body points this pin joins, e.g. joins = [\"boom.C\", "
+                  "\"strut.C\"], or give the pin's place as at = [x, y] when only links and supports meet it")
             continue
         places = [_ref(r, where, "joins", j, bodies, None) for j in joins]
         if any(p is None for p in places):
             continue
-        xy = places[0].xy
-        size = max(1.0, max(abs(c) for p in places for c in p.xy))
-        for p in places[1:]:
+        if "at" in t:
+            xy = _xy(r, where, "at", t["at"])
+            if xy is None:
+                continue
+        else:
+            xy = places[0].xy
+        size = max([1.0, *map(abs, xy)] + [abs(c) for p in places for c in p.xy])
+        for p in places:
             if math.dist(p.xy, xy) > 1e-9 * size:
-                r.bad(where, "joins", f"the points it joins are not at one place: {places[0].label} is at "
+                r.bad(where, "joins", f"the points it joins are not at one place: the pin is at "
                       f"({xy[0]:g}, {xy[1]:g}) m and {p.label} at ({p.xy[0]:g}, {p.xy[1]:g}) m")
                 break
         names = [p.body for p in places]
