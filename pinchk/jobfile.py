@@ -226,7 +226,7 @@ def parse_job(data: dict[str, Any], path: str = "<job>", text: str = "") -> Job:
 
 
 def _names_and_connections(r: _Reader, data: dict) -> None:
-    """A pin's name must not be a body's or a link's; every body must be held by something.
+    """A pin's name must not be a body's or a link's; every body and pin must be held by something.
 
     Read from the raw tables, so a body whose pin or link has some other mistake is not reported
     again as unconnected.
@@ -256,6 +256,11 @@ def _names_and_connections(r: _Reader, data: dict) -> None:
         if body not in used:
             r.bad(f"body.{body}", "", f"body {body} is connected to nothing: no pin joins it, no link ends "
                   "on it and no support holds it; join it to the structure or remove it")
+    met = {ref for ref in refs if isinstance(ref, str) and "." not in ref}
+    for pin in names("pin"):
+        if not data["pin"][pin].get("joins") and pin not in met:
+            r.bad(f"pin.{pin}", "", f"pin {pin} is connected to nothing: it joins no body, and no link or "
+                  "support meets it")
 
 
 def _method(r: _Reader, data: dict) -> MethodChoice:

@@ -193,6 +193,7 @@ CASES = [
     ("load in an undeclared case", edit('case = "c1"\nat', 'case = "c2"\nat'), ["there is no load case 'c2'"]),
     ("body with no connection", add('[body.loose]\npoints = { A = [0, 2000], B = [100, 2000] }'),
      ["body loose", "connected to nothing"]),
+    ("pin connected to nothing", add('[pin.P7]\nat = [0, 700]'), ["pin P7 is connected to nothing"]),
     ("link with both ends at one place", add('[link.stub]\nends = ["beam.A", "beam.A"]'),
      ["a link needs a length"]),
     ("duplicate key in a table", edit("diameter = 30", "diameter = 30\ndiameter = 32"),
