@@ -13,8 +13,9 @@ made here are identities of statics and of the methods, not values from a source
 - scaling every load by k scales every force and moment demand by k; the other demands follow their
   own laws (interaction ratio k², contact stress and type-B thickness √k, geometry demands affine).
 
-The reader is also fuzzed with random files and mutated demo jobs (every examples/*.toml): it raises nothing but InputError, and the
-command line never exits with 3 (a bug). All geometry and loads are random, invented for the test.
+The reader is also fuzzed with random files and mutated demo jobs (every examples/*.toml): it raises
+nothing but InputError, and the command line never exits with 3 (a bug). All geometry and loads are
+random, invented for the test.
 """
 
 from __future__ import annotations
