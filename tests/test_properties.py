@@ -383,14 +383,17 @@ def assert_same(a, b, rtol=1e-9):
     assert a.keys() == b.keys()
     top = max(max(u for u, *_ in v) for v in a.values())
     for k in a:
-        for col in (0, 1, 2):
-            va = np.array([r[col] for r in a[k]])
-            vb = np.array([r[col] for r in b[k]])
-            # a demand of exactly zero comes out as round-off in the other writing: scale atol by the
-            # largest figure of its kind (utilizations by the largest utilization)
-            atol = rtol * (top if col == 0 else max(abs(r[col]) for v in a.values() for r in v
-                                                    if r[3] == a[k][0][3]))
-            np.testing.assert_allclose(vb, va, rtol=rtol, atol=atol, err_msg=f"{k} column {col}")
+        ua, da, ca, _ = (np.array(c) for c in zip(*a[k], strict=True))
+        ub, db, cb, _ = (np.array(c) for c in zip(*b[k], strict=True))
+        np.testing.assert_allclose(ub, ua, rtol=rtol, atol=rtol * top, err_msg=str(k))
+        np.testing.assert_allclose(cb, ca, rtol=rtol, err_msg=f"{k} capacity")
+        if NONLINEAR.get(k[2]) == "sqrt":
+            # a demand of exactly zero comes out as round-off in another writing, which a √F law
+            # magnifies: compare the squares, which are linear in the force
+            da, db, ca = da**2, db**2, ca**2
+        # a demand is compared to within rtol of itself or of its own capacity, as the utilization is
+        bad = np.abs(db - da) > rtol * (np.abs(da) + np.abs(ca))
+        assert not bad.any(), f"{k} demand: {da[bad]} vs {db[bad]} (capacity {ca[bad]})"
 
 
 # ---------------------------------------------------------------- the properties
@@ -494,8 +497,14 @@ def test_mirrored_stacks_change_nothing(tmp_path, spec):
 @given(spec=wall_bracket())
 def test_a_tie_in_tension_is_the_same_as_a_cable(tmp_path, spec):
     """A cable differs from a link only when it would be pushed; in tension both give the same results."""
+    tie = run_spec(tmp_path, spec).solution.links["tie"]
+    pushed = {c for c, t in zip(spec["cases"], tie, strict=True) if t < 0}
+    for ld in spec["loads"]:  # reverse the loads of a case that pushes the tie: then it pulls
+        if ld["case"] in pushed:
+            ld["force"] = (-ld["force"][0], -ld["force"][1])
+            ld["moment"] = -ld.get("moment", 0.0)
     res = run_spec(tmp_path, spec)
-    assume(all(np.all(t > 0) for t in res.solution.links.values()))
+    assert np.all(res.solution.links["tie"] >= -1e-9 * np.abs(tie).max())
     cable = copy.deepcopy(spec)
     cable["links"]["tie"]["kind"] = "cable"
     assert_same(keyed(res), keyed(run_spec(tmp_path, cable)), rtol=1e-15)
@@ -514,10 +523,12 @@ NONLINEAR = {
 @given(spec=frames, k=st.floats(0.05, 20.0))
 def test_scaling_loads_scales_demands(tmp_path, spec, k):
     runs = [run_spec(tmp_path, scaled(spec, s)) for s in (1.0, k, 2 * k)]
+    f_top = max(np.abs(pf.force).max() for pf in runs[0].solution.pins.values())
     for name, t in runs[0].solution.links.items():  # the frame's own forces are linear in the loads
-        np.testing.assert_allclose(runs[1].solution.links[name], k * t, rtol=1e-9, atol=1e-9 * k * np.abs(t).max())
+        np.testing.assert_allclose(runs[1].solution.links[name], k * t, rtol=1e-9, atol=1e-9 * k * f_top)
     for name, r in runs[0].solution.supports.items():
-        np.testing.assert_allclose(runs[1].solution.supports[name], k * r, rtol=1e-9, atol=1e-9 * k * np.abs(r).max())
+        np.testing.assert_allclose(runs[1].solution.supports[name][:, :2], k * r[:, :2], rtol=1e-9,
+                                   atol=1e-9 * k * f_top)
     r1, rk, r2k = (keyed(r) for r in runs)
     top = max(abs(d) for v in r1.values() for _, d, _, _ in v)
     for key, rows in r1.items():
