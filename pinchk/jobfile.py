@@ -8,7 +8,6 @@ from __future__ import annotations
 import difflib
 import math
 import os
-import re
 import tomllib
 from typing import Any
 
@@ -42,34 +41,36 @@ def suggest(word: str, choices) -> str:
     return f" (did you mean '{near[0]}'?)" if near else ""
 
 
-_HEADER = re.compile(r"^\s*(\[\[?)\s*([A-Za-z0-9_.\-+ ]+?)\s*(\]\]?)\s*(#.*)?$")
-
-
 def _line_of(text: str, table: str, field: str) -> int | None:
-    """Best-effort line number of ``field`` in ``table`` (tomllib keeps none).
+    """Best-effort line number of ``field`` in its table (tomllib keeps none).
 
-    ``table`` is a dotted table name, or "NAME #k" for the k-th table of an array [[NAME]]; the field
-    is looked for from that table's header to the next header, and the header's line is given when
-    the field is not written there.
+    ``table`` is a table's dotted name, or "NAME #k" for the k-th of an array of tables [[NAME]]. The
+    field is looked for from the table's header up to the next header; if it is not there (a missing
+    field), the header's line is given.
     """
     lines = text.splitlines()
-    head, _, nth = table.partition(" #")
-    head = head.split("[")[0].replace(" ", "")
-    want = int(nth) if nth.isdigit() else 1
-    headers = [(i, m.group(2).replace(" ", "")) for i, ln in enumerate(lines) if (m := _HEADER.match(ln))]
-    start = -1  # top-level keys lie before the first header
-    if head:
-        seen = [i for i, name in headers if name == head]
-        if len(seen) < want:
+    name, _, nth = table.partition(" #")
+    k = int(nth) if nth.isdigit() else 1
+    start = -1
+    if name:
+        seen = 0
+        for i, ln in enumerate(lines):
+            s = ln.split("#", 1)[0].replace(" ", "").replace("\t", "")
+            if s in (f"[{name}]", f"[[{name}]]"):
+                seen += 1
+                if seen == k:
+                    start = i
+                    break
+        else:
             return None
-        start = seen[want - 1]
-    stop = next((i for i, _ in headers if i > start), len(lines))
-    key = field.split(".")[0]
-    for i in range(start + 1, stop):
+    key = field.split(".", 1)[0]
+    for i in range(start + 1, len(lines)):
         s = lines[i].lstrip()
+        if s.startswith("["):
+            break
         if key and (s.startswith(key + " ") or s.startswith(key + "=")):
             return i + 1
-    return start + 1 if head else None
+    return start + 1 if name else None
 
 
 class _Reader:
