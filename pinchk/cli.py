@@ -33,6 +33,9 @@ def _parser() -> argparse.ArgumentParser:
     r.add_argument("--all-cases", action="store_true",
                    help="table: list every load case of every check, not only the governing one")
     r.add_argument("--no-forces", action="store_true", help="table: leave out the joint-force tables")
+    r.add_argument("--forces-out", metavar="FILE",
+                   help="also write the joint forces to FILE as a forces file (.csv or .json), which a job "
+                        "can read back through [forces] file")
     sub.add_parser("methods", help="list the design methods, their factors and defaults")
     sub.add_parser("materials", help="list the bundled materials and their sources")
     return p
@@ -68,16 +71,38 @@ def _cmd_run(a) -> int:
     from . import run
     from .report import render
 
+    if a.forces_out:
+        from .errors import InputError, Problem
+        from .forcesfile import format_of
+
+        format_of(a.forces_out)  # a wrong extension is an input error before any work
+        if a.output and os.path.realpath(a.output) == os.path.realpath(a.forces_out):
+            raise InputError(Problem(a.forces_out, "", "--forces-out", "is the same file as --output; name two files"))
     results = run(a.job)
     opts = {"all_cases": a.all_cases, "forces": not a.no_forces} if a.format == "table" else {}
     text = render(results, a.format, **opts)
+    protect = [a.job] + ([results.job.forces.path] if results.job.forces is not None else [])
+    if a.forces_out:
+        from .forcesfile import render_forces
+        from .units import UNIT_SYSTEMS
+
+        # the forces per load case (not per combination), so the file reads back into the same job
+        per_case = results.solution if results.case_solution is None else results.case_solution
+        _write(a.forces_out, render_forces(per_case, format_of(a.forces_out),
+                                           UNIT_SYSTEMS[results.job.output_units]["force"], results.job.title),
+               protect + ([a.output] if a.output else []))
     if a.output:
-        _write(a.output, text, [a.job])
+        _write(a.output, text, protect + ([a.forces_out] if a.forces_out else []))
         from .report.common import verdict
 
         print(f"{verdict(results)}\nwrote {a.output}\ncaution: {CAUTION_SHORT}")
     else:
         sys.stdout.write(text)
+    if a.output or a.format != "table":  # the table view prints its warnings itself
+        for w in (*getattr(results.solution, "warnings", ()), *getattr(results, "warnings", ())):
+            print(f"warning: {w}", file=sys.stderr)
+    if a.forces_out:
+        print(f"wrote joint forces to {a.forces_out}", file=sys.stderr if not a.output else sys.stdout)
     return EXIT_PASS if results.passed else EXIT_FAIL
 
 
@@ -98,6 +123,13 @@ def _cmd_materials(a) -> int:
         for r in rows:
             print(f"{name:12s} {r.size_min * 1e3:6.1f} < size <= {r.size_max * 1e3:6.1f} mm  fy {r.fy / 1e6:6.1f} MPa"
                   f"  fu {r.fu / 1e6:6.1f} MPa   {r.source}")
+    from .bolts import grades
+
+    print("\nbolt grades (a pin's bolt = \"GRADE\"): nominal yield / tensile strength")
+    for g in grades():
+        fy = f"{g.fy_nom / 1e6:6.1f}" if g.fy_nom is not None else "  none"
+        print(f"{g.label:22s} {g.size_min * 1e3:6.1f} < d <= {g.size_max * 1e3:6.1f} mm  fy {fy} MPa"
+              f"  fu {g.fu_nom / 1e6:6.1f} MPa   {g.source}")
     return 0
 
 

@@ -37,6 +37,7 @@ class PinForces:
     pin: str
     members: tuple[str, ...]
     force: npt.NDArray[np.float64]  # (n_case, n_member, 2)
+    axial: npt.NDArray[np.float64] | None = None  # (n_case, n_member) along the pin, when a forces file gives it
 
 
 @dataclass(frozen=True)
@@ -49,6 +50,7 @@ class FrameSolution:
     supports: dict[str, npt.NDArray[np.float64]]  # (n_case, 3): Rx, Ry [N], M [N*m] on the structure
     residual: float  # largest equilibrium residual of any body or pin, relative to the largest force
     solver: str = "rigid-body statics"
+    warnings: tuple[str, ...] = ()  # things the engineer must look at (e.g. forces that do not balance)
 
 
 class _Index:

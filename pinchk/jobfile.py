@@ -11,7 +11,7 @@ import os
 import tomllib
 from typing import Any
 
-from . import materials
+from . import materials, sections
 from .errors import Collector, InputError, Problem
 from .model import (GROUND, PIN_LOAD, Body, Case, Job, Link, Load, Material, MethodChoice, Pin, Place,
                     Plate, Support)
@@ -20,15 +20,20 @@ from .units import G0, MIN_SIZE, UNIT_SYSTEMS, QuantityError, check_unit, to_si
 MAX_FILE_BYTES = 4 * 1024 * 1024  # a job file is text typed by a person; anything larger is refused
 
 KEYS = {
-    "": {"job", "units", "method", "material", "body", "pin", "link", "support", "case", "load"},
-    "job": {"title", "output_units", "number", "revision", "prepared_by", "checked_by", "date", "client"},
+    "": {"job", "units", "method", "material", "section", "body", "pin", "link", "support", "case", "load",
+         "forces", "combination", "lift_factors"},
+    "forces": {"file", "balance_tol"},
+    "job": {"title", "output_units", "number", "revision", "prepared_by", "checked_by", "date", "client",
+            "solver"},
     "units": set(UNIT_SYSTEMS["SI"]),
     "method": {"name", "design", "factors"},
     "material": {"fy", "fu", "E", "source"},
-    "body": {"points", "description"},
-    "pin": {"joins", "at", "diameter", "hole", "material", "replaceable", "rotates", "plate", "description"},
-    "plate": {"member", "thickness", "material", "width", "end", "shape", "gap", "hole", "share", "en_type"},
-    "link": {"ends", "kind", "description"},
+    "body": {"points", "description", "section", "members"},
+    "pin": {"joins", "at", "diameter", "hole", "material", "replaceable", "rotates", "plate", "description",
+            "secured", "bolt", "thread_pitch", "thread_planes", "thread_plates"},
+    "plate": {"member", "thickness", "material", "width", "end", "shape", "gap", "hole", "share", "en_type",
+              "stiffened"},
+    "link": {"ends", "kind", "description", "EA"},
     "support": {"at", "kind", "normal", "description"},
     "case": {"description", "limit_state"},
     "load": {"case", "at", "body", "force", "angle", "mass", "moment", "label"},
@@ -207,27 +212,46 @@ def parse_job(data: dict[str, Any], path: str = "<job>", text: str = "") -> Job:
     r.keys("job", jt, "job")
     title = r.text_field("job", jt, "title", default="(untitled job)")
     output_units = r.text_field("job", jt, "output_units", choices=list(UNIT_SYSTEMS), default="SI")
-    info = {k: str(v) for k, v in jt.items() if k in KEYS["job"] - {"title", "output_units"}}
+    info = {k: str(v) for k, v in jt.items() if k in KEYS["job"] - {"title", "output_units", "solver"}}
+    solver = r.text_field("job", jt, "solver", choices=list(sections.SOLVER_CHOICES), default="auto")
 
     method = _method(r, data)
     job_materials = _materials(r, data)
-    bodies = _bodies(r, data)
+    # a job that names a forces file needs no frame; without bodies its pins join nothing
+    from .forcesfile import attach, source_of
+
+    forces, forces_table = source_of(r, data, path)
+    frameless = forces is not None and "body" not in data
+    bodies = sections.attach_to_bodies(r, data, _bodies(r, data, required=forces is None),
+                                       sections.read_sections(r, data))
     cases = _cases(r, data)
     pin_tables = r.table(data, "pin", "")
-    pins_partial = _pins_frame(r, pin_tables, bodies)
-    links = _links(r, data, bodies, pins_partial)
-    supports = _supports(r, data, bodies, pins_partial)
-    loads = _loads(r, data, bodies, pins_partial, cases)
-    pins = _pins_stack(r, pin_tables, pins_partial, links, supports, loads, job_materials)
-    _names_and_connections(r, data)
+    pins_partial = _pins_frame(r, pin_tables, bodies) if not frameless else _pins_frameless(r, pin_tables)
+    links = sections.attach_to_links(r, data, _links(r, data, bodies, pins_partial)) if not frameless else {}
+    supports = _supports(r, data, bodies, pins_partial, required=forces is None) if not frameless else {}
+    loads = _loads(r, data, bodies, pins_partial, cases, required=forces is None) if not frameless else []
+    pins = _pins_stack(r, pin_tables, pins_partial, links, supports, loads, job_materials, frameless)
+    _names_and_connections(r, data, solved_here=forces is None)
+    from . import jobfile_lifting
 
+    combos = jobfile_lifting.combinations(r, data, cases)
+    members = set(bodies) | set(links) | {GROUND, PIN_LOAD} | {pl.member for p in pins.values() for pl in p.stack}
+    stack_factors = jobfile_lifting.stack_factors(r, data, combos, cases, pins, members)
+
+    job = Job(path=path, title=title, method=method, output_units=output_units, bodies=bodies, pins=pins,
+              links=links, supports=supports, loads=tuple(loads), cases=cases, info=info, forces=forces,
+              combinations=combos, stack_factors=stack_factors, solver=solver)
+    if forces_table is not None:
+        job, problems = attach(job, forces_table, pin_tables, not r.c.problems,
+                               lambda table: _line_of(text, table, ""))
+        r.c.problems += problems
     r.c.raise_if_any()
-    return Job(path=path, title=title, method=method, output_units=output_units, bodies=bodies, pins=pins,
-               links=links, supports=supports, loads=tuple(loads), cases=cases, info=info)
+    return job
 
 
-def _names_and_connections(r: _Reader, data: dict) -> None:
-    """A pin's name must not be a body's or a link's; every body and pin must be held by something.
+def _names_and_connections(r: _Reader, data: dict, solved_here: bool = True) -> None:
+    """A pin's name must not be a body's or a link's; every body and pin must be held by something
+    (when the frame is solved here: a job that reads its forces from a file needs no connections).
 
     Read from the raw tables, so a body whose pin or link has some other mistake is not reported
     again as unconnected.
@@ -242,6 +266,8 @@ def _names_and_connections(r: _Reader, data: dict) -> None:
             if pin in other:
                 r.bad(f"pin.{pin}", "", f"the name '{pin}' is used by a {kind} too; names of bodies, links "
                       "and pins must be unique")
+    if not solved_here:
+        return
     used: set[str] = set()
     refs: list[object] = []
     for kind, field in (("pin", "joins"), ("link", "ends"), ("support", "at")):
@@ -329,10 +355,10 @@ def _xy(r: _Reader, where: str, field: str, v) -> tuple[float, float] | None:
     return (out[0], out[1])
 
 
-def _bodies(r: _Reader, data: dict) -> dict[str, Body]:
+def _bodies(r: _Reader, data: dict, required: bool = True) -> dict[str, Body]:
     out: dict[str, Body] = {}
     bt = r.table(data, "body", "")
-    if not bt:
+    if not bt and required:
         r.bad("body", "", "no bodies: describe at least one [body.NAME] with its points")
     for name, t in bt.items():
         where = f"body.{name}"
@@ -430,6 +456,25 @@ def _pins_frame(r: _Reader, pt: dict, bodies: dict[str, Body]) -> dict[str, dict
     return out
 
 
+def _pins_frameless(r: _Reader, pt: dict) -> dict[str, dict]:
+    """Pins of a job without a frame (it reads a forces file): each joins nothing; its members are named
+    by its plates and by the forces file."""
+    out: dict[str, dict] = {}
+    for name, t in pt.items():
+        where = f"pin.{name}"
+        if not isinstance(t, dict):
+            r.bad(where, "", "expected a table with diameter, hole, material and [[pin.NAME.plate]]")
+            continue
+        r.name_ok(where, name)
+        r.keys(where, t, "pin")
+        if "joins" in t:
+            r.bad(where, "joins", "this job has no bodies (it reads its forces from a forces file), so a pin "
+                  "joins nothing; remove 'joins': the members at the pin are named by its plates")
+        xy = _xy(r, where, "at", t["at"]) if "at" in t else (0.0, 0.0)  # where it is, for the record only
+        out[name] = {"xy": xy or (0.0, 0.0), "bodies": ()}
+    return out
+
+
 def _links(r: _Reader, data: dict, bodies, pins) -> dict[str, Link]:
     out: dict[str, Link] = {}
     for name, t in r.table(data, "link", "").items():
@@ -456,7 +501,7 @@ def _links(r: _Reader, data: dict, bodies, pins) -> dict[str, Link]:
     return out
 
 
-def _supports(r: _Reader, data: dict, bodies, pins) -> dict[str, Support]:
+def _supports(r: _Reader, data: dict, bodies, pins, required: bool = True) -> dict[str, Support]:
     out: dict[str, Support] = {}
     at_pin: dict[str, str] = {}
     st = r.table(data, "support", "")
@@ -495,18 +540,18 @@ def _supports(r: _Reader, data: dict, bodies, pins) -> dict[str, Support]:
                 continue
             at_pin[place.pin] = name
         out[name] = Support(name, kind, place, normal)
-    if not st and bodies:
+    if not st and bodies and required:
         r.bad("support", "", "no supports: a frame needs at least one [support.NAME] to stand on")
     return out
 
 
-def _loads(r: _Reader, data: dict, bodies, pins, cases) -> list[Load]:
+def _loads(r: _Reader, data: dict, bodies, pins, cases, required: bool = True) -> list[Load]:
     out: list[Load] = []
     lt = data.get("load", [])
     if not isinstance(lt, list):
         r.bad("load", "", "expected an array of tables [[load]]")
         return out
-    if not lt:
+    if not lt and required:
         r.bad("load", "", "no loads: add at least one [[load]]")
     for i, t in enumerate(lt, start=1):
         where = f"load #{i}"
@@ -591,8 +636,9 @@ def _material(r: _Reader, where: str, field: str, name, size: float, own: dict[s
         return None
 
 
-def _pins_stack(r: _Reader, pt: dict, frame: dict, links, supports, loads, own) -> dict[str, Pin]:
-    """Second pass over pins: size, material and the stack of plates, checked against the frame."""
+def _pins_stack(r: _Reader, pt: dict, frame: dict, links, supports, loads, own, frameless=False) -> dict[str, Pin]:
+    """Second pass over pins: size, material and the stack of plates, checked against the frame (without
+    a frame, pinchk.forcesfile checks the plates' members against the forces file)."""
     at_pin: dict[str, set[str]] = {n: set(f["bodies"]) for n, f in frame.items()}
     for ln, link in links.items():
         for e in link.ends:
@@ -618,10 +664,18 @@ def _pins_stack(r: _Reader, pt: dict, frame: dict, links, supports, loads, own) 
         if d is not None and hole is not None and hole < d:
             r.bad(where, "hole", f"the hole ({t['hole']}) is smaller than the pin ({t['diameter']}); "
                   "the hole must be at least the pin diameter")
-        mat = None
-        if plates_t:
+        mat = grade = None
+        if "bolt" in t and "material" in t:
+            r.bad(where, "bolt", "give either material (a pin) or bolt (a bolt grade), not both")
+        elif "bolt" in t and d is not None:
+            from .jobfile_lifting import bolt_material
+
+            grade, mat = bolt_material(r, where, t, d)
+        elif "bolt" not in t and any(k in t for k in ("thread_pitch", "thread_planes", "thread_plates")):
+            r.bad(where, "bolt", "thread fields are for a bolt used as a pin: give bolt = \"GRADE\" too")
+        elif plates_t:
             if "material" not in t:
-                r.bad(where, "material", "missing: the pin's material (or bolt grade)")
+                r.bad(where, "material", "missing: the pin's material, or bolt = \"GRADE\" for a bolt")
             elif d is not None:
                 mat = _material(r, where, "material", t["material"], d, own)
         stack: list[Plate] = []
@@ -632,7 +686,7 @@ def _pins_stack(r: _Reader, pt: dict, frame: dict, links, supports, loads, own) 
                 continue
             r.keys(pw, p, "plate")
             member = r.text_field(pw, p, "member", required=True)
-            if member is not None and member not in at_pin[name]:
+            if member is not None and not frameless and member not in at_pin[name]:
                 r.bad(pw, "member", f"'{member}' does not meet pin {name}{suggest(member, at_pin[name])}; "
                       f"members here: {', '.join(sorted(at_pin[name]))}")
                 member = None
@@ -672,15 +726,22 @@ def _pins_stack(r: _Reader, pt: dict, frame: dict, links, supports, loads, own) 
                           "the hole centre and must exceed half the hole diameter")
             if None in (member, th, ph) or (checked and None in (pmat, width, end)):
                 continue
-            stack.append(Plate(member, th, gap, share, pmat, width, end, shape, ph, en_type))
+            stack.append(Plate(member, th, gap, share, pmat, width, end, shape, ph, en_type,
+                               r.flag(pw, p, "stiffened")))
         if plates_t and len(stack) == len(plates_t):
             members = [pl.member for pl in stack]
-            for m in at_pin[name]:
+            for m in at_pin[name] if not frameless else ():
                 if m not in members:
                     r.bad(where, "plate", f"member '{m}' meets pin {name} but has no plate in its stack; "
                           "every member at a checked pin needs its plate")
             if len(stack) < 2:
                 r.bad(where, "plate", "a stack needs at least two plates")
+        bolt = None
+        if grade is not None and mat is not None and d is not None:
+            from .jobfile_lifting import bolt_spec
+
+            bolt = bolt_spec(r, where, t, grade, d, len(plates_t))
         out[name] = Pin(name, f["xy"], f["bodies"], d, mat, tuple(stack),
-                        r.flag(where, t, "replaceable"), r.flag(where, t, "rotates"))
+                        r.flag(where, t, "replaceable"), r.flag(where, t, "rotates"), bolt,
+                        r.flag(where, t, "secured"))
     return out

@@ -3,6 +3,10 @@
 from __future__ import annotations
 
 from dataclasses import dataclass, field
+from typing import TYPE_CHECKING, Any
+
+if TYPE_CHECKING:
+    from .bolts import BoltSpec
 
 #: Member names with a fixed meaning in a pin's stack.
 GROUND = "ground"  # the support that ties a pin to the ground (a base bracket)
@@ -21,11 +25,30 @@ class Material:
 
 
 @dataclass(frozen=True)
+class Section:
+    """Elastic section of a member for the stiffness solve: E [Pa], A [m^2], I [m^4]."""
+
+    name: str
+    E: float
+    A: float
+    I: float
+    source: str = ""
+
+
+@dataclass(frozen=True)
 class Body:
-    """A rigid body with named points (x, y) [m]."""
+    """A body with named points (x, y) [m]: rigid for statics; beam members for the stiffness solve.
+
+    ``members`` are the pairs of points joined by beam elements (empty: a chain in point order);
+    ``section`` their elastic section (None: the body has none, and only statics can solve it);
+    ``member_sections`` the members whose section differs from the body's.
+    """
 
     name: str
     points: dict[str, tuple[float, float]]
+    section: Section | None = None
+    members: tuple[tuple[str, str], ...] = ()
+    member_sections: dict[tuple[str, str], Section] = field(default_factory=dict)
 
 
 @dataclass(frozen=True)
@@ -60,6 +83,7 @@ class Plate:
     shape: str  # "round" or "square"
     hole: float  # hole diameter in this plate
     en_type: str  # EN 1993-1-8 Table 3.9 type: "A" or "B"
+    stiffened: bool = False  # stiffened out of plane against dishing (ASME BTH-1 §3-3.3.1 4t limit waived)
 
     @property
     def checked(self) -> bool:
@@ -78,6 +102,8 @@ class Pin:
     stack: tuple[Plate, ...]
     replaceable: bool = False
     rotates: bool = False
+    bolt: BoltSpec | None = None  # the pin is a bolt of a grade (its material is the grade's strengths)
+    secured: bool = False  # secured against working loose (cotter, keeper plate, nut), as the job says
 
     @property
     def checked(self) -> bool:
@@ -91,6 +117,7 @@ class Link:
     name: str
     kind: str  # "link" or "cable"
     ends: tuple[Place, Place]
+    EA: float | None = None  # axial stiffness [N] for the stiffness solve; None: axially rigid
 
 
 @dataclass(frozen=True)
@@ -123,12 +150,49 @@ class Case:
 
 
 @dataclass(frozen=True)
+class Combination:
+    """A load combination: factor × load case, summed (the frame is solved once per case)."""
+
+    name: str
+    factors: dict[str, float]  # case name -> factor
+    description: str = ""
+    limit_state: str = "ULS"
+
+
+@dataclass(frozen=True)
+class StackFactor:
+    """A named factor of the lifting factor stack (dynamic, skew, consequence) and where it applies.
+
+    ``combinations``, ``pins`` and ``members`` are None where the factor is not limited by them; a
+    factor applies to a check row when its combination, its pin and (for a plate) its member are in
+    scope. A pin row is in scope of ``members`` when the pin joins one of them.
+    """
+
+    name: str
+    value: float
+    combinations: tuple[str, ...] | None = None
+    pins: tuple[str, ...] | None = None
+    members: tuple[str, ...] | None = None
+    note: str = ""
+
+
+@dataclass(frozen=True)
 class MethodChoice:
     """The design method, its variant (ASD / LRFD) and the factors the job overrides."""
 
     name: str
     variant: str | None
     factors: dict[str, float] = field(default_factory=dict)
+
+
+@dataclass(frozen=True)
+class ForcesSource:
+    """Joint forces read from a forces file instead of solved from a frame (see pinchk.forcesfile)."""
+
+    file: str  # as the job file names it
+    path: str  # resolved against the job file's folder
+    balance_tol: float  # flag a pin whose member forces sum to more than this share of its largest
+    solution: Any = None  # the pinchk.frame.FrameSolution built from the file
 
 
 @dataclass(frozen=True)
@@ -144,3 +208,7 @@ class Job:
     loads: tuple[Load, ...]
     cases: dict[str, Case]
     info: dict[str, str] = field(default_factory=dict)
+    solver: str = "auto"  # frame solve: "auto", "statics" or "stiffness" (pinchk.solve)
+    forces: ForcesSource | None = None  # set when the job reads its joint forces from a forces file
+    combinations: dict[str, Combination] = field(default_factory=dict)  # empty: each case on its own
+    stack_factors: tuple[StackFactor, ...] = ()
