@@ -266,6 +266,11 @@ def _names_and_connections(r: _Reader, data: dict, solved_here: bool = True) -> 
             if pin in other:
                 r.bad(f"pin.{pin}", "", f"the name '{pin}' is used by a {kind} too; names of bodies, links "
                       "and pins must be unique")
+    cases = set(names("case"))
+    for combo in names("combination"):  # the results' case column would not say which is meant
+        if combo in cases:
+            r.bad(f"combination.{combo}", "", f"the name '{combo}' is used by a load case too; name the "
+                  "combination differently")
     if not solved_here:
         return
     used: set[str] = set()
