@@ -229,6 +229,16 @@ CASES = [
     ("title that is not text", edit('title = "bad-input base job (invented)"', "title = 42"),
      ["expected text, got 42"]),
     ("link end on a missing body", add('[link.stay]\nends = ["beam.C", "wall.X"]'), ["there is no body 'wall'"]),
+    # --- load combinations (the [combination.NAME] format of docs/jobfile.md)
+    ("combination of a case that does not exist", add('[combination.lift]\ncases = { c1 = 1.5, c9 = 1.0 }'),
+     ["table [combination.lift], field 'cases'", "there is no load case 'c9'"]),
+    ("combination factor not a number", add('[combination.lift]\ncases = { c1 = nan }'),
+     ["the factor on case 'c1' must be a finite number"]),
+    ("combination named like a case", add('[combination.c1]\ncases = { c1 = 1.5 }'),
+     ["the name 'c1' is used by a load case too"]),
+    ("lift factor scoped to a missing combination",
+     add('[combination.lift]\ncases = { c1 = 1.5 }\n[lift_factors]\nskew = { value = 1.25, combinations = ["lfit"] }'),
+     ["there is no combination 'lfit'", "did you mean 'lift'"]),
     # --- NaN and infinite values
     ("NaN diameter", edit("diameter = 30", "diameter = nan"), ["is not a finite number"]),
     ("infinite force", edit("force = [0, -10]", "force = [0, -inf]"), ["is not a finite number"]),
