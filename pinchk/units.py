@@ -44,6 +44,8 @@ _ALLOWED = re.compile(r"^[0-9A-Za-z.+\-*/^() µ°]+$")
 # itself raised to a power.
 _POWER = re.compile(r"\^|\*\*")
 _SMALL_POWER = re.compile(r"(?:\^|\*\*)[+-]?\d{1,2}(?![\d.^(]|\*\*)")
+# A unit expression starts with a unit name or a bracket, and holds no '.' (no unit name has one)
+_UNIT_START = re.compile(r"^[A-Za-zµ°(]")
 # Products of a few SI magnitudes must stay finite in double precision, so every magnitude read is
 # bounded ("1e306 t" is a finite number but its weight overflows to infinity); sizes, which divide,
 # are also bounded below (MIN_SIZE, applied by the job-file reader).
@@ -59,6 +61,8 @@ class QuantityError(ValueError):
 def _unit_factor(unit_text: str, dim: str) -> float:
     """SI factor of a unit expression, checked for dimension (cached: a job repeats its units)."""
     packed = "".join(unit_text.split())
+    if "." in packed or not _UNIT_START.match(packed):  # pint reads ".m" and "..mm" as m and mm
+        raise QuantityError(f"'{unit_text}' is not a unit pinchk reads; write for example {_example(dim)}")
     if len(_POWER.findall(packed)) != len(_SMALL_POWER.findall(packed)):
         raise QuantityError(
             f"'{unit_text}' has a power pinchk does not read: write a power as ^2 or ^-1 (a whole number "
