@@ -284,6 +284,8 @@ CASES = [
     ("long quantity string", edit("thickness = 20", 'thickness = "' + "1" * 5000 + ' mm"'),
      ["at most 40 characters"]),
     ("chained powers", edit("thickness = 20", 'thickness = "1 m^9^9^9"'), ["has a power pinchk does not read"]),
+    ("stray dot in a quantity", edit("thickness = 20", 'thickness = "20.."'), ["is not a unit pinchk reads"]),
+    ("unit with a leading dot", edit("thickness = 20", 'thickness = "20 .mm"'), ["is not a unit pinchk reads"]),
     ("characters outside a quantity", edit("thickness = 20", 'thickness = "20 mm; rm -rf"'),
      ["is not a quantity pinchk reads"]),
 ]
@@ -321,7 +323,7 @@ def test_crafted_quantity_refused_quickly(tmp_path, capsys):
 
     for s in ["1 m^9^9^9", "1 m**9**9**9", "1 m ^ 9 ^ 9", "1 9^9^9 m", "1 m^(9^99)", "1 m^999"]:
         t0 = time.perf_counter()
-        with pytest.raises(QuantityError, match="power"):
+        with pytest.raises(QuantityError, match="power|not a unit pinchk reads"):
             to_si(s, "length")
         assert time.perf_counter() - t0 < 0.5, s
     # ordinary powers still read (1 m^-1 * m^2 is 1 m; mm^2/mm is 1 mm)
@@ -489,3 +491,32 @@ def test_problem_lines_point_at_the_field(tmp_path, capsys):
     assert code == 2
     assert f"line {_nth_line(text, '[[load]]', 1, 'force')}, table [load #1], field 'force'" in out.err
     assert f"line {_nth_line(text, '[[pin.P1.plate]]', 3, 'gap')}, table [pin.P1.plate #3], field 'gap'" in out.err
+
+
+EXAMPLES = os.path.join(os.path.dirname(__file__), "..", "examples")
+
+
+@pytest.mark.parametrize("cell,fragment", [
+    ("9..", "is not a unit pinchk reads"),  # pint's parser raised AssertionError on this
+    ("-1e308", "beyond the range pinchk computes with"),  # overflowed to -inf N in the kN column
+    ("nan", "does not start with a number"),
+    ("1e999", "not a finite number"),
+    ("12 MPa", "a force is needed"),
+])
+def test_bad_cell_in_a_forces_file(tmp_path, capsys, cell, fragment):
+    """The demo that reads its joint forces from a CSV file, with one bad cell."""
+    import shutil
+
+    for name in ("padeye_forces.toml", "padeye_forces.csv"):
+        shutil.copy(os.path.join(EXAMPLES, name), tmp_path / name)
+    csv = tmp_path / "padeye_forces.csv"
+    lines = csv.read_text(encoding="utf-8").splitlines()
+    i = next(k for k, ln in enumerate(lines) if ln.startswith("lift_skew,"))
+    cells = lines[i].split(",")
+    cells[4] = cell  # fy
+    lines[i] = ",".join(cells)
+    csv.write_text("\n".join(lines) + "\n", encoding="utf-8")
+    code = cli.main(["run", str(tmp_path / "padeye_forces.toml")])
+    err = capsys.readouterr().err
+    assert code == 2 and "Traceback" not in err
+    assert fragment in err and "padeye_forces.csv" in err and f"line {i + 1}" in err

@@ -569,11 +569,19 @@ def test_scaling_loads_scales_demands(tmp_path, spec, k):
 
 # ---------------------------------------------------------------- the reader never crashes
 
-DEMOS = [p.read_text(encoding="utf-8").splitlines()
-         for p in sorted((Path(__file__).resolve().parents[1] / "examples").glob("*.toml"))]
+EXAMPLES = Path(__file__).resolve().parents[1] / "examples"
+DEMOS = [p.read_text(encoding="utf-8").splitlines() for p in sorted(EXAMPLES.glob("*.toml"))]
+#: files the demo jobs read (forces files), copied beside a mutated job so it finds them
+SIBLINGS = {p.name: p.read_bytes() for p in EXAMPLES.iterdir() if p.suffix in (".csv", ".json")}
+
+
+def _with_siblings(folder: Path) -> None:
+    for name, data in SIBLINGS.items():
+        (folder / name).write_bytes(data)
 ODD_VALUES = ["0", "-1", "1e308", "-0.0", "nan", "inf", '"1 m^9^9^9"', '"40 kN"', '""', "[]", "{}", "true",
               '"P_apex"', '"leg_left.A"', '"ground"', '"load"', "1e-300", '"12 parsec"', '"1 mm mm"', "[1, 2, 3]",
-              '["1 mm", "2 kN"]', "2026-12-01", '"x" ', "{ a = 1 }", '"-5 mm"', '"1.5 in"', "0.0001"]
+              '["1 mm", "2 kN"]', "2026-12-01", '"x" ', "{ a = 1 }", '"-5 mm"', '"1.5 in"', "0.0001", '"9.."',
+              '"1 .m"', '"1 (m"', "-1e308"]
 
 
 @st.composite
@@ -614,9 +622,50 @@ def _run_guarded(path):
           suppress_health_check=[HealthCheck.function_scoped_fixture])
 @given(text=mutated_demo())
 def test_mutated_demo_only_input_errors(tmp_path, text):
+    _with_siblings(tmp_path)
     path = tmp_path / "mutated.toml"
     path.write_text(text, encoding="utf-8")
     _run_guarded(path)
+
+
+@st.composite
+def mutated_lines(draw, lines):
+    lines = list(lines)
+    for _ in range(draw(st.integers(1, 3))):
+        if not lines:
+            break
+        i = draw(st.integers(0, len(lines) - 1))
+        op = draw(st.sampled_from(["delete", "duplicate", "char", "cell"]))
+        if op == "delete":
+            del lines[i]
+        elif op == "duplicate":
+            lines.insert(i, lines[i])
+        elif op == "char" and lines[i]:
+            k = draw(st.integers(0, len(lines[i]) - 1))
+            lines[i] = lines[i][:k] + draw(st.sampled_from(list('0123456789-.e",;x '))) + lines[i][k + 1:]
+        elif op == "cell" and "," in lines[i]:
+            cells = lines[i].split(",")
+            cells[draw(st.integers(0, len(cells) - 1))] = draw(st.sampled_from(
+                ["", "nan", "inf", "-1e308", "1e999", "abc", '"1 m^9^9^9"', "12 kN", "0", "P9", "ground"]))
+            lines[i] = ",".join(cells)
+    return "\n".join(lines) + "\n"
+
+
+@settings(max_examples=60, deadline=None, derandomize=True,
+          suppress_health_check=[HealthCheck.function_scoped_fixture])
+@given(data=st.data())
+def test_mutated_forces_file_only_input_errors(tmp_path, data):
+    """The demo that reads a forces file, with that file mutated."""
+    if not SIBLINGS:
+        pytest.skip("no demo reads a forces file")
+    _with_siblings(tmp_path)
+    name = data.draw(st.sampled_from(sorted(SIBLINGS)))
+    text = data.draw(mutated_lines(SIBLINGS[name].decode("utf-8").splitlines()))
+    (tmp_path / name).write_text(text, encoding="utf-8")
+    for job in sorted(EXAMPLES.glob("*.toml")):
+        if name in job.read_text(encoding="utf-8"):
+            (tmp_path / job.name).write_bytes(job.read_bytes())
+            _run_guarded(tmp_path / job.name)
 
 
 TOKENS = ["[pin.", "[[pin.P.plate]]", "[[load]]", "[body.", "joins", "points", "member", "case", "at",
@@ -637,6 +686,7 @@ def test_random_text_only_input_errors(tmp_path, text):
           suppress_health_check=[HealthCheck.function_scoped_fixture])
 @given(text=mutated_demo(), fmt=st.sampled_from(["table", "json", "csv"]))
 def test_cli_never_exits_with_a_bug(tmp_path, capsys, text, fmt):
+    _with_siblings(tmp_path)
     path = tmp_path / "mutated.toml"
     path.write_text(text, encoding="utf-8")
     code = cli.main(["run", str(path), "--format", fmt])
