@@ -520,3 +520,23 @@ def test_bad_cell_in_a_forces_file(tmp_path, capsys, cell, fragment):
     err = capsys.readouterr().err
     assert code == 2 and "Traceback" not in err
     assert fragment in err and "padeye_forces.csv" in err and f"line {i + 1}" in err
+
+
+def test_bad_job_with_output_writes_nothing(tmp_path, capsys):
+    """An input error stops the run before anything is written to --output."""
+    target = tmp_path / "out.json"
+    code, out, _ = run_cli(tmp_path, edit("diameter = 30", "diameter = -30"), "--format", "json",
+                           "--output", str(target), capsys=capsys)
+    assert code == 2 and not target.exists()
+    assert [p.name for p in tmp_path.iterdir()] == ["job.toml"]
+
+
+@pytest.mark.parametrize("argv", [["run"], ["run", "job.toml", "--format", "xml"], ["bogus"],
+                                  ["run", "job.toml", "--outptu", "x"]])
+def test_bad_command_line(tmp_path, capsys, argv):
+    """A wrong command line is a wrong input too: status 2 and a usage message, no traceback."""
+    with pytest.raises(SystemExit) as exc:
+        cli.main(argv)
+    err = capsys.readouterr().err
+    assert exc.value.code == 2
+    assert "usage:" in err and "Traceback" not in err
