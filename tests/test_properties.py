@@ -1,8 +1,9 @@
 """Properties a result must have whatever way the job is written (hypothesis).
 
-Random determinate frames (three-hinged frames, wall brackets with a tie, A-frames with a tie and a
-roller foot) with random geometry, loads and pin stacks are written as job files and run. The checks
-made here are identities of statics and of the methods, not values from a source:
+Random determinate frames (three-hinged frames, wall brackets with a tie, the tie's anchor on a body or
+on a pin at a place of its own, A-frames with a tie and a roller foot) with random geometry, loads and
+pin stacks are written as job files and run. The checks made here are identities of statics and of the
+methods, not values from a source:
 
 - every solved body and pin is in equilibrium (worked here from the job's own geometry and loads, not
   by the solver's own residual function);
@@ -166,6 +167,10 @@ def wall_bracket(draw):
         "supports": {"base": {"at": ("pt", "wall", "W"), "kind": "fixed"}},
         "cases": ["c1", "c2"],
     }
+    if draw(st.booleans()):  # the tie anchored on a pin at a place of its own, with its own support
+        del spec["bodies"]["wall"]["T"]
+        spec["pins"]["PT"] = {"joins": [], "at": (0.0, b)}
+        spec["supports"]["anchor"] = {"at": ("pin", "PT"), "kind": "pinned"}
     spec["loads"] = _loads(draw, spec, [("pt", "boom", "Tip"), ("pin", "PB")])
     return _finish(draw, spec)
 
@@ -248,7 +253,10 @@ def to_toml(spec, system: str = "SI") -> str:
             out.append(f'body = "{ld["body"]}"')
     for pn, pin in spec["pins"].items():
         joins = ", ".join(f'"{b}.{p}"' for b, p in pin["joins"])
-        out += [f"[pin.{pn}]", f"joins = [{joins}]", f"diameter = {L(pin['d'])}", f"hole = {L(pin['hole'])}",
+        out += [f"[pin.{pn}]"]
+        if "at" in pin:
+            out.append(f"at = [{L(pin['at'][0])}, {L(pin['at'][1])}]")
+        out += [f"joins = [{joins}]", f"diameter = {L(pin['d'])}", f"hole = {L(pin['hole'])}",
                 f'material = "{pin["mat"]}"', f"rotates = {'true' if pin['rot'] else 'false'}",
                 f"replaceable = {'true' if pin['repl'] else 'false'}"]
         for pl in pin["plates"]:
@@ -290,6 +298,9 @@ def rotated(spec, theta: float, shift: tuple[float, float]):
 
     out = copy.deepcopy(spec)
     out["bodies"] = {b: {p: move(xy) for p, xy in pts.items()} for b, pts in spec["bodies"].items()}
+    for pin in out["pins"].values():
+        if "at" in pin:
+            pin["at"] = move(pin["at"])
     for sup in out["supports"].values():
         if sup.get("normal"):
             sup["normal"] = rot(sup["normal"])
@@ -417,7 +428,10 @@ def body_residuals(spec, res):
 
     def xy_of(ref):
         if ref[0] == "pin":
-            b, p = spec["pins"][ref[1]]["joins"][0]
+            pin = spec["pins"][ref[1]]
+            if "at" in pin:
+                return pin["at"]
+            b, p = pin["joins"][0]
             return spec["bodies"][b][p]
         return spec["bodies"][ref[1]][ref[2]]
 
