@@ -232,6 +232,7 @@ def parse_job(data: dict[str, Any], path: str = "<job>", text: str = "") -> Job:
     loads = _loads(r, data, bodies, pins_partial, cases, required=forces is None) if not frameless else []
     pins = _pins_stack(r, pin_tables, pins_partial, links, supports, loads, job_materials, frameless)
     _names_and_connections(r, data, solved_here=forces is None)
+    _modulus_where_needed(r, data, method, pins)
     from . import jobfile_lifting
 
     combos = jobfile_lifting.combinations(r, data, cases)
@@ -247,6 +248,28 @@ def parse_job(data: dict[str, Any], path: str = "<job>", text: str = "") -> Job:
         r.c.problems += problems
     r.c.raise_if_any()
     return job
+
+
+def _modulus_where_needed(r: _Reader, data: dict, method: MethodChoice, pins: dict[str, Pin]) -> None:
+    """A job material must give E where the method uses it, not take steel's 210 GPa unasked.
+
+    EN 1993-1-8 eq (3.15) (contact stress of a replaceable pin) is the only check that uses E.
+    """
+    own = data.get("material") if isinstance(data.get("material"), dict) else {}
+    if method.name != "EN 1993-1-8":
+        return
+    told: set[str] = set()
+    for pname, pin in pins.items():
+        if not pin.replaceable:
+            continue
+        for i, plate in enumerate(pin.stack, start=1):
+            m = plate.material
+            t = own.get(m.name) if m is not None else None
+            if isinstance(t, dict) and "E" not in t and m.name not in told:
+                told.add(m.name)
+                r.bad(f"material.{m.name}", "E", f"material {m.name} gives no modulus E, and the contact "
+                      f"stress check of EN 1993-1-8 eq (3.15) needs it (replaceable pin {pname}, plate #{i}); "
+                      "give it, e.g. E = \"210 GPa\" for steel")
 
 
 def _names_and_connections(r: _Reader, data: dict, solved_here: bool = True) -> None:
