@@ -268,6 +268,11 @@ CASES = [
     ("material without fu", add('[material.mine]\nfy = "355 MPa"\nsource = "mill certificate"').replace(
         'thickness = 20\nmaterial = "S355"', 'thickness = 20\nmaterial = "mine"'),
      ["material.mine", "missing required field 'fu'"]),
+    ("material without the E a check needs",
+     add('[material.mine]\nfy = "240 MPa"\nfu = "400 MPa"\nsource = "x"').replace(
+        'thickness = 20\nmaterial = "S355"', 'thickness = 20\nmaterial = "mine"').replace(
+        'hole = 32\n', 'hole = 32\nreplaceable = true\n'),
+     ["material mine gives no modulus E", "EN 1993-1-8 eq (3.15)"]),
     ("material without a source", add('[material.mine]\nfy = "355 MPa"\nfu = "470 MPa"'),
      ["missing required field 'source'"]),
     ("yield above tensile strength", add('[material.mine]\nfy = "500 MPa"\nfu = "470 MPa"\nsource = "x"'),

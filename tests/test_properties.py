@@ -231,7 +231,7 @@ def to_toml(spec, system: str = "SI") -> str:
     name, variant = spec["method"]
     out += ['[method]', f'name = "{name}"'] + ([f'design = "{variant}"'] if variant else [])
     out += ['[material.own_plate]', f'fy = {_num(300e6, system, "stress")}', f'fu = {_num(440e6, system, "stress")}',
-            'source = "invented for a property test"']
+            f'E = {_num(200e9, system, "stress")}', 'source = "invented for a property test"']
     for b, pts in spec["bodies"].items():
         inner = ", ".join(f"{p} = [{L(x)}, {L(y)}]" for p, (x, y) in pts.items())
         out += [f"[body.{b}]", f"points = {{ {inner} }}"]
