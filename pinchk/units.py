@@ -26,6 +26,9 @@ SI_UNIT = {
     "second moment of area": "m^4",  # second moment of area of a member's section (stiffness solve)
 }
 
+#: The units an angle may be written in (pint holds angles dimensionless, so they are named here).
+ANGLE_UNITS = frozenset({"deg", "degree", "degrees", "rad", "radian", "radians", "°"})
+
 #: Output unit systems: the unit printed for each kind of figure.
 UNIT_SYSTEMS = {
     "SI": {"length": "mm", "force": "kN", "stress": "MPa", "moment": "kN*m", "mass": "t", "angle": "deg"},
@@ -39,11 +42,6 @@ G0 = 9.80665
 # the parser work for long (at most 40 characters, digits, letters, space and . + - * / ^ ( ) only).
 _MAX_LEN = 40
 _ALLOWED = re.compile(r"^[0-9A-Za-z.+\-*/^() µ°]+$")
-# Powers are where a short string can cost the most (pint evaluates "m^9^9^9" as an integer power
-# with hundreds of millions of digits): an exponent is a signed integer of at most two digits, not
-# itself raised to a power.
-_POWER = re.compile(r"\^|\*\*")
-_SMALL_POWER = re.compile(r"(?:\^|\*\*)[+-]?\d{1,2}(?![\d.^(]|\*\*)")
 # A unit expression starts with a unit name or a bracket, and holds no '.' (no unit name has one)
 _UNIT_START = re.compile(r"^[A-Za-zµ°(]")
 # Products of a few SI magnitudes must stay finite in double precision, so every magnitude read is
@@ -57,18 +55,29 @@ class QuantityError(ValueError):
     """A quantity could not be read; the message says what was expected."""
 
 
+# A power is a unit name raised to a small whole number (mm^2, in**-1). pint evaluates exponent
+# expressions, so a tower such as m^(9^9^9), short as it is, would compute a number of millions of
+# digits: every power operator must match this before pint sees the text.
+_POWER_OP = re.compile(r"\^|\*\*")
+_POWER_OK = re.compile(r"[A-Za-zµ°]\s*(?:\^|\*\*)\s*[+-]?\d{1,2}(?![\d.])(?!\s*(?:\^|\*\*))")
+
+
 @lru_cache(maxsize=256)
 def _unit_factor(unit_text: str, dim: str) -> float:
     """SI factor of a unit expression, checked for dimension (cached: a job repeats its units)."""
     packed = "".join(unit_text.split())
     if "." in packed or not _UNIT_START.match(packed):  # pint reads ".m" and "..mm" as m and mm
         raise QuantityError(f"'{unit_text}' is not a unit pinchk reads; write for example {_example(dim)}")
-    if len(_POWER.findall(packed)) != len(_SMALL_POWER.findall(packed)):
+    if len(_POWER_OP.findall(unit_text)) != len(_POWER_OK.findall(unit_text)):
         raise QuantityError(
-            f"'{unit_text}' has a power pinchk does not read: write a power as ^2 or ^-1 (a whole number "
-            f"of at most two digits, not raised again), for example {_example(dim)}"
+            f"'{unit_text}': a power must be a unit raised to a whole number of at most two digits, "
+            f"such as mm^2 or in**2"
         )
     q = ureg.Quantity(1.0, unit_text)
+    if dim == "angle" and unit_text.strip() not in ANGLE_UNITS:
+        # pint takes an angle as dimensionless, so "30 percent" would pass as 0.3 rad: name the unit
+        raise QuantityError(f"'{unit_text}' is not a unit of angle; write the angle in "
+                            f"{' or '.join(sorted(ANGLE_UNITS)[:4])}, for example \"30 deg\"")
     try:
         return float(q.to(SI_UNIT[dim]).magnitude)
     except pint.DimensionalityError:
@@ -149,15 +158,15 @@ def to_si(value: object, dim: str, default_unit: str | None = None) -> float:
         factor = _unit_factor(unit_text.strip(), dim)
     except QuantityError:
         raise
-    except Exception as exc:  # pint's parser fails on junk in many ways ("9.." raises AssertionError)
+    except Exception as exc:  # pint's parser raises many kinds (TokenError, AssertionError, ...)
         raise QuantityError(
             f"{unit_text!r} is not a unit pinchk knows ({type(exc).__name__}); write for example {_example(dim)}"
         ) from None
     si = number * factor
     if not math.isfinite(si) or abs(si) > _MAX_SI:
         raise QuantityError(
-            f"{value!r} is beyond the range pinchk computes with (at most 1e30 {SI_UNIT[dim]}); "
-            "check the value and its unit"
+            f"{value!r} is too large: pinchk computes with finite magnitudes of at most 1e30 "
+            f"{SI_UNIT[dim]}; check the value and its unit"
         )
     return si
 

@@ -247,8 +247,8 @@ CASES = [
     ("NaN factor", edit('name = "EN 1993-1-8"', 'name = "EN 1993-1-8"\n[method.factors]\ngamma_M2 = nan'),
      ["a factor must be a finite number"]),
     ("NaN roller normal", edit("normal = [0, 1]", "normal = [nan, 1]"), ["a roller needs normal"]),
-    ("weight that overflows", edit("force = [0, -10]", 'mass = "1e306 t"'), ["beyond the range pinchk computes with"]),
-    ("absurd force", edit("force = [0, -10]", 'force = [0, "-1e300 kN"]'), ["beyond the range pinchk computes with"]),
+    ("weight that overflows", edit("force = [0, -10]", 'mass = "1e306 t"'), ["is too large"]),
+    ("absurd force", edit("force = [0, -10]", 'force = [0, "-1e300 kN"]'), ["is too large"]),
     ("vanishing thickness", edit("thickness = 20", 'thickness = "1e-300 mm"'),
      ["too small for pinchk to compute with"]),
     ("absurd factor", edit('name = "EN 1993-1-8"', 'name = "EN 1993-1-8"\n[method.factors]\ngamma_M0 = 1e308'),
@@ -288,7 +288,8 @@ CASES = [
     # --- quantity strings built to be expensive are refused quickly, by what they may contain
     ("long quantity string", edit("thickness = 20", 'thickness = "' + "1" * 5000 + ' mm"'),
      ["at most 40 characters"]),
-    ("chained powers", edit("thickness = 20", 'thickness = "1 m^9^9^9"'), ["has a power pinchk does not read"]),
+    ("chained powers", edit("thickness = 20", 'thickness = "1 m^9^9^9"'),
+     ["a power must be a unit raised to a whole number"]),
     ("stray dot in a quantity", edit("thickness = 20", 'thickness = "20.."'), ["is not a unit pinchk reads"]),
     ("unit with a leading dot", edit("thickness = 20", 'thickness = "20 .mm"'), ["is not a unit pinchk reads"]),
     ("characters outside a quantity", edit("thickness = 20", 'thickness = "20 mm; rm -rf"'),
@@ -411,7 +412,7 @@ def test_output_into_missing_folder(tmp_path, capsys):
     code = cli.main(["run", str(job), "--format", "json", "--output", str(target)])
     out = capsys.readouterr()
     assert code == 2 and "Traceback" not in out.err
-    assert "cannot write the output" in out.err and "does not exist" in out.err
+    assert "cannot write" in out.err and "No such file or directory" in out.err
     assert str(target) in out.err  # names the path the user gave, not a temporary file
     assert ".pinchk-" not in out.err
     assert not target.exists()
@@ -451,7 +452,7 @@ def test_output_onto_a_folder(tmp_path, capsys):
     code = cli.main(["run", str(job), "--output", str(folder)])
     out = capsys.readouterr()
     assert code == 2 and "Traceback" not in out.err
-    assert "the path is a folder" in out.err
+    assert f"cannot write {folder}" in out.err
     assert folder.is_dir() and os.listdir(folder) == []
     assert [p.name for p in tmp_path.iterdir() if p.name.startswith(".pinchk-")] == []
 
@@ -474,7 +475,7 @@ def test_output_under_a_file(tmp_path, capsys):
     code = cli.main(["run", str(job), "--output", str(blocker / "out.txt")])
     out = capsys.readouterr()
     assert code == 2 and "Traceback" not in out.err
-    assert "is a file" in out.err and str(blocker / "out.txt") in out.err
+    assert "Not a directory" in out.err and str(blocker / "out.txt") in out.err
     assert blocker.read_text() == "a file, not a folder"
 
 
@@ -503,7 +504,7 @@ EXAMPLES = os.path.join(os.path.dirname(__file__), "..", "examples")
 
 @pytest.mark.parametrize("cell,fragment", [
     ("9..", "is not a unit pinchk reads"),  # pint's parser raised AssertionError on this
-    ("-1e308", "beyond the range pinchk computes with"),  # overflowed to -inf N in the kN column
+    ("-1e308", "is too large"),  # overflowed to -inf N in the kN column
     ("nan", "does not start with a number"),
     ("1e999", "not a finite number"),
     ("12 MPa", "a force is needed"),
