@@ -300,3 +300,22 @@ def test_every_check_names_its_clause():
     P, Q = pin_cols(ser=True), plate_cols(ser=True)
     for c in [*en.pin_checks(P, DEFAULTS), *en.plate_checks(Q, DEFAULTS)]:
         assert c.clause.startswith("EN 1993-1-8") and c.formula, c.name
+
+
+def test_pin_not_stated_secured_fails_its_rule(tmp_path):
+    """EN 1993-1-8 §3.13.1: where pins risk becoming loose they should be secured. A pin whose job does
+    not state it secured fails that row (and only that row) until the engineer says how it is retained."""
+    import math
+    from pathlib import Path
+
+    import pinchk
+
+    text = (Path(__file__).parents[2] / "examples" / "a_frame_gantry.toml").read_text()
+    job_file = tmp_path / "unsecured.toml"
+    job_file.write_text(text.replace("[pin.PL]\nsecured = true", "[pin.PL]", 1))
+    res = pinchk.run(pinchk.load_job(job_file))
+    rows = [r for r in res.rows() if r["check"] == "pin secured"]
+    bad = [r for r in rows if r["status"] == "FAIL"]
+    assert {r["pin"] for r in bad} == {"PL"} and all(math.isinf(r["utilization"]) for r in bad)
+    assert all(r["clause"].startswith("EN 1993-1-8 §3.13.1") for r in rows)
+    assert not res.passed
