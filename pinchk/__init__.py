@@ -19,11 +19,17 @@ def run(job):
     """Solve the frame of ``job`` (a Job or a path to a job file), or read its forces file, and check
     every pin: Results."""
     from .checks import run_checks
+    from .combine import combine
     from .forcesfile import joint_forces
 
     if not hasattr(job, "pins"):
         job = load_job(job)
-    return run_checks(job, joint_forces(job))
+    from dataclasses import replace
+
+    per_case = joint_forces(job)
+    job2, sol = combine(job, per_case)
+    res = run_checks(job2, sol)
+    return res if sol is per_case else replace(res, case_solution=per_case)
 
 
 def __getattr__(name):

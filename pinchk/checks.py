@@ -7,6 +7,8 @@ from dataclasses import dataclass, field
 import numpy as np
 import numpy.typing as npt
 
+from . import bolts
+from .combine import row_factors
 from .frame import FrameSolution
 from .methods import METHODS, Check, factors_for
 from .model import Job
@@ -34,6 +36,8 @@ class Results:
     columns: dict[str, object]
     assumptions: tuple[str, ...] = field(default_factory=tuple)
     unchecked: tuple[str, ...] = field(default_factory=tuple)
+    warnings: tuple[str, ...] = field(default_factory=tuple)
+    case_solution: FrameSolution | None = None  # the forces per load case, where combinations were checked
 
     def __len__(self) -> int:
         return len(self.columns["check"])
@@ -88,9 +92,11 @@ def run_checks(job: Job, sol: FrameSolution, module=None) -> Results:
     ser_case = ~uls_case if has_sls else uls_case
 
     stacks: dict[str, StackResult] = {}
-    P = {k: [] for k in ("d", "fup", "fyp", "V", "M", "uls", "ser")}
-    Q = {k: [] for k in ("F", "t", "d", "d0", "fy", "fu", "fyp", "E", "a_end", "width", "type_b", "rot",
-                         "uls", "ser")}
+    P = {k: [] for k in ("d", "fup", "fyp", "V", "M", "uls", "ser", "bolt", "grade", "As", "V_shank", "V_thread",
+                         "secured", "rot", "stack_text", "shank_planes", "thread_planes")}
+    Q = {k: [] for k in ("F", "t", "d", "d0", "fy", "fu", "fyp", "fup", "E", "a_end", "width", "type_b", "rot",
+                         "uls", "ser", "stiffened", "stack_text")}
+    warnings: list[str] = []
     pin_lab: list[str] = []
     plate_lab: list[tuple[str, str]] = []
     for name, pin in job.pins.items():
@@ -99,22 +105,41 @@ def run_checks(job: Job, sol: FrameSolution, module=None) -> Results:
         st = solve_stack(pin, sol.pins[name])
         stacks[name] = st
         ser = ser_case & pin.replaceable
+        # the factor stack (dynamic, skew, consequence) scales the forces of the rows it applies to
+        sfac, txt = row_factors(job, cases, name, {p.member for p in pin.stack})
+        bolt = pin.bolt
+        V_sh, V_th = bolts.shank_and_thread_shear(pin, st)
         P["d"].append(np.full(nc, pin.diameter))
         P["fup"].append(np.full(nc, pin.material.fu))
         P["fyp"].append(np.full(nc, pin.material.fy))
-        P["V"].append(st.shear)
-        P["M"].append(st.moment)
+        P["V"].append(st.shear * sfac)
+        P["M"].append(st.moment * sfac)
         P["uls"].append(uls_case)
         P["ser"].append(ser)
+        P["bolt"].append(np.full(nc, bolt is not None))
+        P["grade"].append(np.full(nc, bolt.grade.grade if bolt else "", dtype=object))
+        P["As"].append(np.full(nc, bolt.As if bolt else np.pi * pin.diameter**2 / 4))
+        P["V_shank"].append(V_sh * sfac)
+        P["V_thread"].append(V_th * sfac)
+        n_thread = len(bolt.thread_planes) if bolt else 0
+        P["shank_planes"].append(np.full(nc, n_thread < len(pin.stack) - 1))
+        P["thread_planes"].append(np.full(nc, n_thread > 0))
+        P["secured"].append(np.full(nc, pin.secured))
+        P["rot"].append(np.full(nc, pin.rotates))
+        P["stack_text"].append(np.array(txt, dtype=object))
         pin_lab.append(name)
+        warnings += bolts.warnings_for(pin)
         for k, (plate, part) in enumerate(zip(pin.stack, _part_names(pin))):
             if not plate.checked:
                 continue
             m = plate.material
-            Q["F"].append(np.linalg.norm(st.plate_force[:, k, :], axis=-1))
+            sfac, txt = row_factors(job, cases, name, {plate.member})
+            Q["F"].append(np.linalg.norm(st.plate_force[:, k, :], axis=-1) * sfac)
+            Q["stack_text"].append(np.array(txt, dtype=object))
+            Q["stiffened"].append(np.full(nc, plate.stiffened))
             for key, val in (("t", plate.thickness), ("d", pin.diameter), ("d0", plate.hole), ("fy", m.fy),
-                             ("fu", m.fu), ("fyp", pin.material.fy), ("E", m.E), ("a_end", plate.end),
-                             ("width", plate.width)):
+                             ("fu", m.fu), ("fyp", pin.material.fy), ("fup", pin.material.fu), ("E", m.E),
+                             ("a_end", plate.end), ("width", plate.width)):
                 Q[key].append(np.full(nc, val))
             Q["type_b"].append(np.full(nc, plate.en_type == "B"))
             Q["rot"].append(np.full(nc, pin.rotates))
@@ -124,7 +149,7 @@ def run_checks(job: Job, sol: FrameSolution, module=None) -> Results:
 
     cols: dict[str, list] = {k: [] for k in COLUMNS}
 
-    def emit(checks: list[Check], labels: list[tuple[str, str]]) -> None:
+    def emit(checks: list[Check], labels: list[tuple[str, str]], stack_text) -> None:
         n = len(labels)
         pins_ = np.repeat([p for p, _ in labels], nc) if n else np.array([], dtype=str)
         parts = np.repeat([q for _, q in labels], nc) if n else np.array([], dtype=str)
@@ -148,15 +173,16 @@ def run_checks(job: Job, sol: FrameSolution, module=None) -> Results:
             cols["status"] += ["pass" if u <= 1.0 else "FAIL" for u in util]
             cols["clause"] += [ch.clause] * k
             cols["formula"] += [ch.formula] * k
-            cols["factors"] += [ch.factors] * k
+            stack = stack_text[mask] if ch.uses_forces else [""] * k
+            cols["factors"] += [ch.factors + ("; " if ch.factors and s else "") + s for s in stack]
             cols["note"] += [ch.note] * k
 
     if pin_lab:
         Pa = {k: np.concatenate(v) for k, v in P.items()}
-        emit(mod.pin_checks(Pa, fac, variant), [(p, "pin") for p in pin_lab])
+        emit(mod.pin_checks(Pa, fac, variant), [(p, "pin") for p in pin_lab], Pa["stack_text"])
     if plate_lab:
         Qa = {k: np.concatenate(v) for k, v in Q.items()}
-        emit(mod.plate_checks(Qa, fac, variant), plate_lab)
+        emit(mod.plate_checks(Qa, fac, variant), plate_lab, Qa["stack_text"])
 
     columns: dict[str, object] = {}
     for k in COLUMNS:
@@ -175,4 +201,7 @@ def run_checks(job: Job, sol: FrameSolution, module=None) -> Results:
         notes.append("replaceable pins: no SLS case is given, so the serviceability checks use the ultimate "
                      "case forces (conservative)")
     unchecked = tuple(n for n, p in job.pins.items() if not p.checked)
-    return Results(job, sol, stacks, mod.NAME, mod.EDITION, variant, fac, columns, tuple(notes), unchecked)
+    notes += [f"{n}: {pin.bolt.thread_note}" for n, pin in job.pins.items() if pin.bolt and n in stacks]
+    return Results(job, sol, stacks, mod.NAME, mod.EDITION, variant, fac, columns, tuple(notes), unchecked,
+                   tuple(warnings))
+

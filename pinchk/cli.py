@@ -77,7 +77,9 @@ def _cmd_run(a) -> int:
         from .forcesfile import render_forces
         from .units import UNIT_SYSTEMS
 
-        _write(a.forces_out, render_forces(results.solution, format_of(a.forces_out),
+        # the forces per load case (not per combination), so the file reads back into the same job
+        per_case = results.solution if results.case_solution is None else results.case_solution
+        _write(a.forces_out, render_forces(per_case, format_of(a.forces_out),
                                            UNIT_SYSTEMS[results.job.output_units]["force"], results.job.title),
                protect + ([a.output] if a.output else []))
     if a.output:
@@ -88,7 +90,7 @@ def _cmd_run(a) -> int:
     else:
         sys.stdout.write(text)
     if a.output or a.format != "table":  # the table view prints its warnings itself
-        for w in getattr(results.solution, "warnings", ()):
+        for w in (*getattr(results.solution, "warnings", ()), *getattr(results, "warnings", ())):
             print(f"warning: {w}", file=sys.stderr)
     if a.forces_out:
         print(f"wrote joint forces to {a.forces_out}", file=sys.stderr if not a.output else sys.stdout)
@@ -112,6 +114,13 @@ def _cmd_materials(a) -> int:
         for r in rows:
             print(f"{name:12s} {r.size_min * 1e3:6.1f} < size <= {r.size_max * 1e3:6.1f} mm  fy {r.fy / 1e6:6.1f} MPa"
                   f"  fu {r.fu / 1e6:6.1f} MPa   {r.source}")
+    from .bolts import grades
+
+    print("\nbolt grades (a pin's bolt = \"GRADE\"): nominal yield / tensile strength")
+    for g in grades():
+        fy = f"{g.fy_nom / 1e6:6.1f}" if g.fy_nom is not None else "  none"
+        print(f"{g.label:22s} {g.size_min * 1e3:6.1f} < d <= {g.size_max * 1e3:6.1f} mm  fy {fy} MPa"
+              f"  fu {g.fu_nom / 1e6:6.1f} MPa   {g.source}")
     return 0
 
 

@@ -20,15 +20,18 @@ from .units import G0, UNIT_SYSTEMS, QuantityError, check_unit, to_si
 MAX_FILE_BYTES = 4 * 1024 * 1024  # a job file is text typed by a person; anything larger is refused
 
 KEYS = {
-    "": {"job", "units", "method", "material", "body", "pin", "link", "support", "case", "load", "forces"},
+    "": {"job", "units", "method", "material", "body", "pin", "link", "support", "case", "load", "forces",
+         "combination", "lift_factors"},
     "forces": {"file", "balance_tol"},
     "job": {"title", "output_units", "number", "revision", "prepared_by", "checked_by", "date", "client"},
     "units": set(UNIT_SYSTEMS["SI"]),
     "method": {"name", "design", "factors"},
     "material": {"fy", "fu", "E", "source"},
     "body": {"points", "description"},
-    "pin": {"joins", "at", "diameter", "hole", "material", "replaceable", "rotates", "plate", "description"},
-    "plate": {"member", "thickness", "material", "width", "end", "shape", "gap", "hole", "share", "en_type"},
+    "pin": {"joins", "at", "diameter", "hole", "material", "replaceable", "rotates", "plate", "description",
+            "secured", "bolt", "thread_pitch", "thread_planes", "thread_plates"},
+    "plate": {"member", "thickness", "material", "width", "end", "shape", "gap", "hole", "share", "en_type",
+              "stiffened"},
     "link": {"ends", "kind", "description"},
     "support": {"at", "kind", "normal", "description"},
     "case": {"description", "limit_state"},
@@ -207,9 +210,15 @@ def parse_job(data: dict[str, Any], path: str = "<job>", text: str = "") -> Job:
     supports = _supports(r, data, bodies, pins_partial, required=forces is None) if not frameless else {}
     loads = _loads(r, data, bodies, pins_partial, cases, required=forces is None) if not frameless else []
     pins = _pins_stack(r, pin_tables, pins_partial, links, supports, loads, job_materials, frameless)
+    from . import jobfile_lifting
+
+    combos = jobfile_lifting.combinations(r, data, cases)
+    members = set(bodies) | set(links) | {GROUND, PIN_LOAD} | {pl.member for p in pins.values() for pl in p.stack}
+    stack_factors = jobfile_lifting.stack_factors(r, data, combos, cases, pins, members)
 
     job = Job(path=path, title=title, method=method, output_units=output_units, bodies=bodies, pins=pins,
-              links=links, supports=supports, loads=tuple(loads), cases=cases, info=info, forces=forces)
+              links=links, supports=supports, loads=tuple(loads), cases=cases, info=info, forces=forces,
+              combinations=combos, stack_factors=stack_factors)
     if forces_table is not None:
         job, problems = attach(job, forces_table, pin_tables, not r.c.problems,
                                lambda table: _line_of(text, table, ""))
@@ -590,10 +599,18 @@ def _pins_stack(r: _Reader, pt: dict, frame: dict, links, supports, loads, own, 
         if d is not None and hole is not None and hole < d:
             r.bad(where, "hole", f"the hole ({t['hole']}) is smaller than the pin ({t['diameter']}); "
                   "the hole must be at least the pin diameter")
-        mat = None
-        if plates_t:
+        mat = grade = None
+        if "bolt" in t and "material" in t:
+            r.bad(where, "bolt", "give either material (a pin) or bolt (a bolt grade), not both")
+        elif "bolt" in t and d is not None:
+            from .jobfile_lifting import bolt_material
+
+            grade, mat = bolt_material(r, where, t, d)
+        elif "bolt" not in t and any(k in t for k in ("thread_pitch", "thread_planes", "thread_plates")):
+            r.bad(where, "bolt", "thread fields are for a bolt used as a pin: give bolt = \"GRADE\" too")
+        elif plates_t:
             if "material" not in t:
-                r.bad(where, "material", "missing: the pin's material (or bolt grade)")
+                r.bad(where, "material", "missing: the pin's material, or bolt = \"GRADE\" for a bolt")
             elif d is not None:
                 mat = _material(r, where, "material", t["material"], d, own)
         stack: list[Plate] = []
@@ -640,7 +657,8 @@ def _pins_stack(r: _Reader, pt: dict, frame: dict, links, supports, loads, own, 
                           "the hole centre and must exceed half the hole diameter")
             if None in (member, th, ph) or (checked and None in (pmat, width, end)):
                 continue
-            stack.append(Plate(member, th, gap, share, pmat, width, end, shape, ph, en_type))
+            stack.append(Plate(member, th, gap, share, pmat, width, end, shape, ph, en_type,
+                               r.flag(pw, p, "stiffened")))
         if plates_t and len(stack) == len(plates_t):
             members = [pl.member for pl in stack]
             for m in at_pin[name] if not frameless else ():
@@ -649,6 +667,12 @@ def _pins_stack(r: _Reader, pt: dict, frame: dict, links, supports, loads, own, 
                           "every member at a checked pin needs its plate")
             if len(stack) < 2:
                 r.bad(where, "plate", "a stack needs at least two plates")
+        bolt = None
+        if grade is not None and mat is not None and d is not None:
+            from .jobfile_lifting import bolt_spec
+
+            bolt = bolt_spec(r, where, t, grade, d, len(plates_t))
         out[name] = Pin(name, f["xy"], f["bodies"], d, mat, tuple(stack),
-                        r.flag(where, t, "replaceable"), r.flag(where, t, "rotates"))
+                        r.flag(where, t, "replaceable"), r.flag(where, t, "rotates"), bolt,
+                        r.flag(where, t, "secured"))
     return out

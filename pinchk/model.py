@@ -3,7 +3,10 @@
 from __future__ import annotations
 
 from dataclasses import dataclass, field
-from typing import Any
+from typing import TYPE_CHECKING, Any
+
+if TYPE_CHECKING:
+    from .bolts import BoltSpec
 
 #: Member names with a fixed meaning in a pin's stack.
 GROUND = "ground"  # the support that ties a pin to the ground (a base bracket)
@@ -61,6 +64,7 @@ class Plate:
     shape: str  # "round" or "square"
     hole: float  # hole diameter in this plate
     en_type: str  # EN 1993-1-8 Table 3.9 type: "A" or "B"
+    stiffened: bool = False  # stiffened out of plane against dishing (ASME BTH-1 §3-3.3.1 4t limit waived)
 
     @property
     def checked(self) -> bool:
@@ -79,6 +83,8 @@ class Pin:
     stack: tuple[Plate, ...]
     replaceable: bool = False
     rotates: bool = False
+    bolt: BoltSpec | None = None  # the pin is a bolt of a grade (its material is the grade's strengths)
+    secured: bool = False  # secured against working loose (cotter, keeper plate, nut), as the job says
 
     @property
     def checked(self) -> bool:
@@ -124,6 +130,33 @@ class Case:
 
 
 @dataclass(frozen=True)
+class Combination:
+    """A load combination: factor × load case, summed (the frame is solved once per case)."""
+
+    name: str
+    factors: dict[str, float]  # case name -> factor
+    description: str = ""
+    limit_state: str = "ULS"
+
+
+@dataclass(frozen=True)
+class StackFactor:
+    """A named factor of the lifting factor stack (dynamic, skew, consequence) and where it applies.
+
+    ``combinations``, ``pins`` and ``members`` are None where the factor is not limited by them; a
+    factor applies to a check row when its combination, its pin and (for a plate) its member are in
+    scope. A pin row is in scope of ``members`` when the pin joins one of them.
+    """
+
+    name: str
+    value: float
+    combinations: tuple[str, ...] | None = None
+    pins: tuple[str, ...] | None = None
+    members: tuple[str, ...] | None = None
+    note: str = ""
+
+
+@dataclass(frozen=True)
 class MethodChoice:
     """The design method, its variant (ASD / LRFD) and the factors the job overrides."""
 
@@ -156,3 +189,5 @@ class Job:
     cases: dict[str, Case]
     info: dict[str, str] = field(default_factory=dict)
     forces: ForcesSource | None = None  # set when the job reads its joint forces from a forces file
+    combinations: dict[str, Combination] = field(default_factory=dict)  # empty: each case on its own
+    stack_factors: tuple[StackFactor, ...] = ()

@@ -4,6 +4,12 @@ A method module defines NAME, EDITION, VARIANTS (e.g. ("ASD", "LRFD") or ()), FA
 (default, what it is and where it comes from)) and two functions, ``pin_checks(P, f, variant)`` and
 ``plate_checks(Q, f, variant)``, that take columns of SI arrays and return a list of ``Check``.
 Nothing in a method module knows about files, units or output.
+
+Optional pin columns a module may use (checks.py always provides them): bolt (the pin is a bolt),
+grade (its grade name, "" for a pin), As (thread stress area), V_shank and V_thread (the largest shear on
+a plane through the shank / through the thread; 0 where there is none), shank_planes and thread_planes
+(some plane cuts the shank / the thread), secured, rot. Plate columns
+add fup (pin ultimate strength) and stiffened (against dishing).
 """
 
 from __future__ import annotations
@@ -13,7 +19,7 @@ from dataclasses import dataclass
 import numpy as np
 import numpy.typing as npt
 
-from . import aisc360_16, en1993_1_8
+from . import aisc360_16, allowable, bth1, en1993_1_8
 
 
 @dataclass(frozen=True)
@@ -33,18 +39,22 @@ class Check:
     factors: str
     mask: npt.NDArray[np.bool_] | None = None
     note: str = ""
+    uses_forces: bool = True  # False for a detailing rule the forces do not enter (no load factors apply)
 
 
-def make_check(name, clause_formula, kind, demand, capacity, factors, mask=None, note="") -> Check:
+def make_check(name, clause_formula, kind, demand, capacity, factors, mask=None, note="",
+               uses_forces=True) -> Check:
     """A Check from "clause: formula" text and array-likes (the form the method modules write)."""
     clause, _, formula = clause_formula.partition(": ")
     return Check(name, clause, formula, kind, np.asarray(demand, float), np.asarray(capacity, float),
-                 factors, mask, note)
+                 factors, mask, note, uses_forces)
 
 
 METHODS = {
     en1993_1_8.NAME: en1993_1_8,
     aisc360_16.NAME: aisc360_16,
+    bth1.NAME: bth1,
+    allowable.NAME: allowable,
 }
 
 

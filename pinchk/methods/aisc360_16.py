@@ -30,7 +30,23 @@ FACTORS = {
     "omega_pv": (2.00, "Ω, pin shear (common practice, as shear rupture)"),
     "phi_pb": (0.90, "φb, pin bending, §F1"),
     "omega_pb": (1.67, "Ωb, pin bending, §F1"),
+    "phi_bv": (0.75, "φ, shear of a bolt used as a pin, §J3.6"),
+    "omega_bv": (2.00, "Ω, shear of a bolt used as a pin, §J3.6"),
 }
+KSI = 1000 * 4.4482216152605 / 0.0254**2  # Pa: 1000 lbf/in², exact by definition
+#: Table J3.2 Fnv [Pa], (threads included in the plane N, excluded X) [seen for 360-10 and 360-16].
+FNV = {"A307": (27 * KSI, 27 * KSI), "A325": (54 * KSI, 68 * KSI), "A490": (68 * KSI, 84 * KSI),
+       "A325M": (54 * KSI, 68 * KSI), "A490M": (68 * KSI, 84 * KSI)}
+#: Other grades: Fnv = 0.450 Fu (N) and 0.563 Fu (X), the ratios of the Table J3.2 values to Fu
+#: (54/120, 67.5/120) [derived]; common practice, AISC covers only the ASTM grades.
+FNV_RATIO = (0.450, 0.563)
+
+
+def fnv(grades, fu):
+    """Fnv with the thread included (N) and excluded (X) [Pa] by grade (Table J3.2)."""
+    n = np.array([FNV[g][0] if g in FNV else FNV_RATIO[0] * u for g, u in zip(grades, fu, strict=True)], float)
+    x = np.array([FNV[g][1] if g in FNV else FNV_RATIO[1] * u for g, u in zip(grades, fu, strict=True)], float)
+    return n, x
 BE_ADD = 0.016  # §D5.1: be = 2t + 0.63 in (2t + 16 mm); the SI 16 mm is the smaller, used for both
 ROT_CLEARANCE = 0.0254 / 32  # §D5.2: hole at most 1/32 in (1 mm) over the pin; the smaller 1/32 in used
 
@@ -58,9 +74,21 @@ def pin_checks(P, f, variant="ASD"):
     Mn = np.minimum(P["fyp"] * Z, 1.6 * P["fyp"] * S)  # §F11.1 (Mn = Fy Z ≤ 1.6 Fy S)
     Vc, fv = _resistance(Vn, f, "pv", variant)
     Mc, fb = _resistance(Mn, f, "pb", variant)
+    n = d.shape[0]
+    bolt = P.get("bolt", np.zeros(n, bool))
+    V_sh, V_th = P.get("V_shank", P["V"]), P.get("V_thread", np.zeros(n))
+    shank, thread = P.get("shank_planes", np.ones(n, bool)), P.get("thread_planes", np.zeros(n, bool))
+    fnv_n, fnv_x = fnv(P.get("grade", [""] * n), P["fup"])
+    c_x, f_x = _resistance(fnv_x * A, f, "bv", variant)
+    c_n, f_n = _resistance(fnv_n * A, f, "bv", variant)
     return [
         _check("pin shear", "common practice (no AISC 360 clause): Vn = 0.6 Fu A per shear plane", "force",
-               P["V"], Vc, fv),
+               P["V"], Vc, fv, ~bolt),
+        _check("bolt shear (shank)", "AISC 360-16 §J3.6, Table J3.2: Rn = Fnv Ab, Fnv threads excluded (X)",
+               "force", V_sh, c_x, f_x, bolt & shank),
+        _check("bolt shear (thread)", "AISC 360-16 §J3.6, Table J3.2: Rn = Fnv Ab, Fnv threads included (N)",
+               "force", V_th, c_n, f_n, bolt & thread,
+               "a thread lies in this shear plane: rigging practice warns against it"),
         _check("pin bending", "AISC 360-16 §F11.1 (common practice for pins): Mn = Fy Z ≤ 1.6 Fy S", "moment",
                P["M"], Mc, fb),
     ]
@@ -87,8 +115,8 @@ def plate_checks(Q, f, variant="ASD"):
         _check("bearing", "AISC 360-16 §J7: Rn = 1.8 Fy Apb, Apb = t d (Fy the lower of plate and pin)",
                "force", F, c_br, f_br),
         _check("gross yielding", "AISC 360-16 §D5.1(d), §D2(a): Pn = Fy Ag, Ag = t w", "force", F, c_ty, f_ty),
-        _check("end distance", "AISC 360-16 §D5.2: a ≥ 1.33 be", "length", 1.33 * be, a, ""),
-        _check("width", "AISC 360-16 §D5.2: w ≥ 2 be + d", "length", 2 * be + d, Q["width"], ""),
+        _check("end distance", "AISC 360-16 §D5.2: a ≥ 1.33 be", "length", 1.33 * be, a, "", uses_forces=False),
+        _check("width", "AISC 360-16 §D5.2: w ≥ 2 be + d", "length", 2 * be + d, Q["width"], "", uses_forces=False),
         _check("hole clearance (rotating)", "AISC 360-16 §D5.2: d0 ≤ d + 1/32 in (1 mm) where the pin turns "
-               "under load", "length", d0 - d, np.full_like(d, ROT_CLEARANCE), "", Q["rot"]),
+               "under load", "length", d0 - d, np.full_like(d, ROT_CLEARANCE), "", Q["rot"], uses_forces=False),
     ]

@@ -32,20 +32,47 @@ def _check(*args, **kw):
     return make_check(*args, **kw)
 
 
+#: Table 3.4: αv for a shear plane through the thread, by property class (0.6 through the shank).
+#: [seen for 4.6, 8.8, 10.9; from memory for 4.8, 5.6, 5.8, 6.8]. Other grades: 0.5, the lower value
+#: (common practice: EN 1993-1-8 gives αv only for these classes).
+ALPHA_V_THREAD = {"4.6": 0.6, "5.6": 0.6, "8.8": 0.6, "4.8": 0.5, "5.8": 0.5, "6.8": 0.5, "10.9": 0.5}
+
+
+def alpha_v_thread(grades):
+    return np.array([ALPHA_V_THREAD.get(g, 0.5) for g in grades], float)
+
+
 def pin_checks(P, f, variant=None):
-    """Pin shear, bending and their interaction (Table 3.10), and bending under serviceability loads."""
+    """Pin shear, bending and their interaction (Table 3.10), and bending under serviceability loads.
+
+    A bolt used as a pin takes shear per Table 3.4 (Fv,Rd = αv fub A / γM2, A the shank area or the
+    stress area As where the plane cuts the thread), bending as a pin (§3.13.1(4)).
+    """
     g0, g2, g6 = f["gamma_M0"], f["gamma_M2"], f["gamma_M6_ser"]
     d = P["d"]
+    n = d.shape[0]
     A = np.pi * d**2 / 4
     Wel = np.pi * d**3 / 32
     Fv_Rd = 0.6 * A * P["fup"] / g2  # Table 3.10, shear resistance per shear plane
     M_Rd = 1.5 * Wel * P["fyp"] / g0  # Table 3.10, bending resistance of the pin
     M_Rd_ser = 0.8 * Wel * P["fyp"] / g6  # Table 3.10, replaceable pin
     uls = P["uls"]
-    inter = (P["M"] / M_Rd) ** 2 + (P["V"] / Fv_Rd) ** 2
+    bolt = P.get("bolt", np.zeros(n, bool))
+    V_sh, V_th = P.get("V_shank", P["V"]), P.get("V_thread", np.zeros(n))
+    shank, thread = P.get("shank_planes", np.ones(n, bool)), P.get("thread_planes", np.zeros(n, bool))
+    Fv_sh = 0.6 * P["fup"] * A / g2  # Table 3.4, shank in the shear plane
+    av_th = alpha_v_thread(P.get("grade", [""] * n))
+    Fv_th = av_th * P["fup"] * P.get("As", A) / g2  # Table 3.4, thread in the shear plane
+    shear_ratio = np.where(bolt, np.maximum(V_sh / Fv_sh, V_th / Fv_th), P["V"] / Fv_Rd)
+    inter = (P["M"] / M_Rd) ** 2 + shear_ratio ** 2
     return [
         _check("pin shear", "EN 1993-1-8 Table 3.10: Fv,Rd = 0.6 A fup / γM2", "force", P["V"], Fv_Rd,
-               f"γM2 = {g2:g}", uls),
+               f"γM2 = {g2:g}", uls & ~bolt),
+        _check("bolt shear (shank)", "EN 1993-1-8 Table 3.4: Fv,Rd = αv fub A / γM2, αv = 0.6 (shank)", "force",
+               V_sh, Fv_sh, f"γM2 = {g2:g}, αv = 0.6", uls & bolt & shank),
+        _check("bolt shear (thread)", "EN 1993-1-8 Table 3.4: Fv,Rd = αv fub As / γM2 (thread in the plane)",
+               "force", V_th, Fv_th, f"γM2 = {g2:g}, αv by class (0.6 for 4.6, 5.6, 8.8; 0.5 otherwise)",
+               uls & bolt & thread, "a thread lies in this shear plane: rigging practice warns against it"),
         _check("pin bending", "EN 1993-1-8 Table 3.10: MRd = 1.5 Wel fyp / γM0 (MEd per Fig. 3.11 model)",
                "moment", P["M"], M_Rd, f"γM0 = {g0:g}", uls),
         _check("pin shear + bending", "EN 1993-1-8 Table 3.10: (MEd/MRd)² + (Fv,Ed/Fv,Rd)² ≤ 1", "ratio",
@@ -85,5 +112,5 @@ def plate_checks(Q, f, variant=None):
         _check("thickness (type B)", "EN 1993-1-8 Table 3.9 B: t ≥ 0.7 √(FEd γM0 / fy)", "length",
                t_min_b, t, f"γM0 = {g0:g}", type_b, "outline of the Table 3.9 B figure assumed"),
         _check("hole to thickness (type B)", "EN 1993-1-8 Table 3.9 B: d0 ≤ 2.5 t", "length", d0, 2.5 * t,
-               "", type_b),
+               "", type_b, uses_forces=False),
     ]

@@ -67,10 +67,13 @@ def governing_by_check(results) -> list[int]:
     return sorted(best.values(), key=lambda i: (-util[i], i))
 
 
-def force_rows(results):
-    """Joint forces: (case, pin, member, Fx, Fy, |F|, angle deg) in SI."""
-    sol = results.solution
+def force_rows(results, sol=False):
+    """Joint forces: (case, pin, member, Fx, Fy, |F|, angle deg) in SI, of ``sol`` (default the results'
+    own solution; None gives no rows)."""
+    sol = results.solution if sol is False else sol
     out = []
+    if sol is None:
+        return out
     for j, case in enumerate(sol.cases):
         for pname, pf in sol.pins.items():
             for k, m in enumerate(pf.members):
@@ -78,4 +81,18 @@ def force_rows(results):
                 mag = math.hypot(fx, fy)
                 ang = math.degrees(math.atan2(fy, fx)) if mag > 0 else 0.0
                 out.append((case, pname, m, fx, fy, mag, ang))
+    return out
+
+
+def combination_lines(results) -> list[str]:
+    """The job's combinations and lift factors, one line each (nothing when it gives none)."""
+    from ..combine import combination_text
+
+    job = results.job
+    out = [f"combination {n}: {combination_text(c)} ({c.limit_state})" for n, c in job.combinations.items()]
+    for sf in job.stack_factors:
+        where = [f"{k} {', '.join(v)}" for k, v in (("combinations", sf.combinations), ("pins", sf.pins),
+                                                    ("members", sf.members)) if v is not None]
+        out.append(f"lift factor {sf.name} = {sf.value:g} on the forces, "
+                   + ("; ".join(where) if where else "everywhere") + (f" ({sf.note})" if sf.note else ""))
     return out

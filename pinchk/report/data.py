@@ -8,7 +8,7 @@ import json
 
 from .. import __version__
 from . import CAUTION
-from .common import convert, force_rows, unit_of, units_of, verdict
+from .common import convert, force_rows, governing_by_check, unit_of, units_of, verdict
 
 CSV_COLUMNS = ("pin", "part", "check", "case", "demand", "capacity", "unit", "utilization", "status", "clause",
                "formula", "factors", "note")
@@ -43,7 +43,17 @@ def to_dict(results) -> dict:
         "units": {k: unit_of(k, units) for k in ("force", "moment", "length", "stress")},
         "verdict": verdict(results),
         "governing": governing,
+        "governing_by_check": [{k: rows[i][k] for k in ("pin", "part", "check", "case", "utilization", "status")}
+                               for i in governing_by_check(results)],
+        "combinations": {n: {"cases": c.factors, "description": c.description, "limit_state": c.limit_state}
+                         for n, c in results.job.combinations.items()},
+        "lift_factors": [{"name": sf.name, "value": sf.value, "combinations": sf.combinations, "pins": sf.pins,
+                          "members": sf.members, "note": sf.note} for sf in results.job.stack_factors],
         "checks": rows,
+        "case_joint_forces": [  # per load case, where the checks ran on combinations (else empty)
+            {"case": c, "pin": p, "member": m, "fx": convert(fx, "force", units), "fy": convert(fy, "force", units),
+             "unit": fu}
+            for c, p, m, fx, fy, _, _ in force_rows(results, getattr(results, "case_solution", None))],
         "joint_forces": _with_axial(sol, [
             {"case": c, "pin": p, "member": m, "fx": convert(fx, "force", units), "fy": convert(fy, "force", units),
              "resultant": convert(f, "force", units), "angle_deg": a, "unit": fu}
@@ -55,7 +65,7 @@ def to_dict(results) -> dict:
         "links": [{"case": c, "link": n, "tension": convert(t[j], "force", units)}
                   for n, t in sol.links.items() for j, c in enumerate(sol.cases)],
         "solver": sol.solver,
-        "warnings": list(getattr(sol, "warnings", ())),
+        "warnings": [*getattr(sol, "warnings", ()), *getattr(results, "warnings", ())],
         "equilibrium_residual": sol.residual,
         "unchecked_pins": list(results.unchecked),
         "assumptions": list(results.assumptions),

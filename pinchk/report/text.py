@@ -5,7 +5,7 @@ from __future__ import annotations
 from tabulate import tabulate
 
 from . import CAUTION
-from .common import convert, fmt, force_rows, governing_by_check, unit_of, units_of, verdict
+from .common import combination_lines, convert, fmt, force_rows, governing_by_check, unit_of, units_of, verdict
 
 
 def render_table(results, all_cases: bool = False, forces: bool = True) -> str:
@@ -16,6 +16,7 @@ def render_table(results, all_cases: bool = False, forces: bool = True) -> str:
     out.append(f"method: {method}, {results.edition}")
     out.append("factors: " + ", ".join(f"{k} = {v:g}" for k, v in results.factors.items()))
     out.append(f"solver: {results.solution.solver}; equilibrium residual {results.solution.residual:.1e}")
+    out += combination_lines(results)
     out.append("")
     if forces:
         fu = unit_of("force", units)
@@ -58,7 +59,8 @@ def render_table(results, all_cases: bool = False, forces: bool = True) -> str:
         rows.append((c["pin"][i], c["part"][i], c["check"][i], c["case"][i],
                      fmt(convert(c["demand"][i], kind, units)), fmt(convert(c["capacity"][i], kind, units)),
                      unit_of(kind, units), f"{c['utilization'][i]:.3f}", c["status"][i], c["clause"][i]))
-    title = "Checks, every case" if all_cases else "Checks, governing case of each (highest first)"
+    what = "combination" if job.combinations else "case"
+    title = f"Checks, every {what}" if all_cases else f"Checks, governing {what} of each (highest first)"
     if rows:
         out.append(title)
         out.append(tabulate(rows, headers=["pin", "part", "check", "case", "demand", "capacity", "unit", "util",
@@ -68,7 +70,7 @@ def render_table(results, all_cases: bool = False, forces: bool = True) -> str:
         out.append("not checked (no stack of plates given): pins " + ", ".join(results.unchecked))
     for note in results.assumptions:
         out.append(f"assumed: {note}")
-    for w in getattr(results.solution, "warnings", ()):
+    for w in (*getattr(results.solution, "warnings", ()), *getattr(results, "warnings", ())):
         out.append(f"WARNING: {w}")
     out.append("")
     out.append(verdict(results))
