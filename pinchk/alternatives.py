@@ -22,7 +22,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, field, replace
-from functools import lru_cache
+from functools import cache, lru_cache
 
 import numpy as np
 import numpy.typing as npt
@@ -53,7 +53,7 @@ class Series:
     source: str
 
 
-@lru_cache(maxsize=None)
+@cache
 def series_library() -> dict[tuple[str, str], Series]:
     """data/size_series.csv: (kind, name) -> Series."""
     out = {}
@@ -306,18 +306,11 @@ class PinSweep:
     parts: tuple[str, ...]  # "pin" then the plate parts
     part_util: Array  # (n_option, n_parts)
     check_util: dict[str, Array] = field(default_factory=dict)
-    part_check: tuple[tuple[str, ...], ...] = ()  # per option: the governing check of each part
-    geometry: tuple[dict[str, tuple[float, float, float]], ...] = ()  # per option: part -> (t, end, width)
-    strengths: tuple[tuple[float, float], ...] = ()  # per option: (pin fu, lowest plate fu) [Pa]
+    check_names: tuple[str, ...] = ()
+    part_check_ix: npt.NDArray[np.intp] | None = None  # (n_option, n_parts) into check_names
+    geo: Array | None = None  # (n_option, n_plate_parts, 3): t, end, width [m]
+    strengths: Array | None = None  # (n_option, 2): pin fu, lowest plate fu [Pa]
     kinds: dict[str, str] = field(default_factory=dict)  # check -> kind ("force", "length", ...)
-
-    def strength(self, i: int) -> tuple[float, str]:
-        """(utilization, check) of the option's governing check other than a detailing length rule."""
-        best, name = -np.inf, ""
-        for c, arr in self.check_util.items():
-            if self.kinds.get(c) != "length" and arr[i] > best:
-                best, name = float(arr[i]), c
-        return best, name
 
     @property
     def valid(self) -> npt.NDArray[np.bool_]:
@@ -326,6 +319,22 @@ class PinSweep:
     @property
     def passed(self) -> npt.NDArray[np.bool_]:
         return self.valid & (np.nan_to_num(self.util, nan=np.inf) <= 1.0)
+
+    def geometry(self, i: int) -> dict[str, tuple[float, float, float]]:
+        """Option ``i``: plate part -> (thickness, end, width) [m]."""
+        return {lab: tuple(float(x) for x in self.geo[i, j]) for j, lab in enumerate(self.parts[1:])}
+
+    def part_check(self, i: int, j: int) -> str:
+        """The governing check of part ``j`` (0 the pin) under option ``i``."""
+        return self.check_names[int(self.part_check_ix[i, j])]
+
+    def strength(self, i: int) -> tuple[float, str]:
+        """(utilization, check) of the option's governing check other than a detailing length rule."""
+        best, name = -np.inf, ""
+        for c, arr in self.check_util.items():
+            if self.kinds.get(c) != "length" and arr[i] > best:
+                best, name = float(arr[i]), c
+        return best, name
 
 
 def _ratio(new, old):
@@ -369,63 +378,41 @@ def _build(base: Base, name: str, options: list[Option], method: str, fac: dict)
     grade_col = []
     members = base.part_member[name]
     plate_of = {}
-    for k, p in enumerate(pin.stack):
+    for p in pin.stack:
         plate_of.setdefault(p.member, p)
-    t_part = np.empty((na, nq))
-    fy_part, fu_part, E_part = np.empty((na, nq)), np.empty((na, nq)), np.empty((na, nq))
+    t0 = Q["t"][::nc][:nq] if nq else np.zeros(0)
+    fu0 = Q["fu"][::nc][:nq] if nq else np.zeros(0)
+    t_part = np.tile(t0, (na, 1))
+    fy_part, fu_part, E_part = (np.full((na, nq), np.nan) for _ in range(3))
     geo_given = np.full((na, nq, 2), np.nan)
     v_ratio = np.ones((na, nc))
     m_ratio = np.ones((na, nc))
     f_ratio = np.ones((na, nq, nc))
     stack_cache = base.cache
-    strengths = []
-    t0 = Q["t"][::nc][:nq] if nq else np.zeros(0)
     for i, o in enumerate(options):
         d = pin.diameter if o.diameter is None else o.diameter
         d_opt[i] = d
         mat, grade, why = _pin_material(pin, o, d)
-        thick = dict(o.thickness)
-        pmat = dict(o.plate_material)
-        geo = {m: (e, w) for m, e, w in o.geometry}
         if not why:
             fup[i], fyp[i] = mat.fu, mat.fy
         else:
             fup[i] = fyp[i] = np.nan
         grade_col.append(grade)
-        low_fu = np.inf
-        for j, m in enumerate(members):
-            t = thick.get(m, t0[j])
-            t_part[i, j] = t
-            plate = plate_of[m]
-            mname = pmat.get(m)
-            if mname is None and m in thick and _from_library(plate.material):
-                mname = plate.material.name
-            if mname is not None:
-                mm = _material(mname, t)
-                if isinstance(mm, str):
-                    why = why or f"{m}: {mm}"
-                    mm = plate.material
-            else:
-                mm = None
-            if mm is None:
-                fy_part[i, j], fu_part[i, j], E_part[i, j] = np.nan, np.nan, np.nan
-            else:
-                fy_part[i, j], fu_part[i, j], E_part[i, j] = mm.fy, mm.fu, mm.E
-                low_fu = min(low_fu, mm.fu)
-            if m in geo:
-                geo_given[i, j] = geo[m]
-        strengths.append((fup[i], low_fu))
-        if thick:
-            r = _stack_ratios(base, name, {m: thick[m] for m in thick}, stack_cache)
+        if o.thickness or o.plate_material or o.geometry:
+            why = _plates_of_option(o, members, plate_of, t_part[i], fy_part[i], fu_part[i], E_part[i],
+                                    geo_given[i], why)
+        if o.thickness:
+            thick = dict(o.thickness)
+            r = _stack_ratios(base, name, thick, stack_cache)
             if r is not None:
                 v_ratio[i], m_ratio[i] = r[0], r[1]
-                # plate parts in row order: the stack's checked plates of each part's member
-                f_all = r[2]  # (nc, n_stack)
                 for j, lab in enumerate(base.parts[name]):
                     k = _stack_index(pin, lab)
                     if k is not None:
-                        f_ratio[i, j] = f_all[:, k]
+                        f_ratio[i, j] = r[2][:, k]
         reasons.append(why)
+    strengths = np.stack([fup, np.where(np.isnan(fu_part), fu0[None, :], fu_part).min(axis=1)
+                          if nq else np.full(na, np.inf)], axis=1)
     rep = lambda a: np.repeat(a, nc)  # noqa: E731  option values onto pin rows
     if len(pr):
         d_old = P["d"].copy()
@@ -442,7 +429,7 @@ def _build(base: Base, name: str, options: list[Option], method: str, fac: dict)
             P["grade"] = np.repeat(np.array([g if g is not None else "" for g in grade_col], dtype=object), nc)
             if "bolt" in P and pin.bolt is None:
                 P["bolt"] = np.zeros(na * nc, bool)  # a grade's strengths for a plain pin: shank in every plane
-    geometry = [dict() for _ in range(na)]
+    geometry = np.zeros((na, nq, 3))
     if nq:
         rq = lambda a: np.repeat(a.reshape(na, nq), nc, axis=1).ravel()  # noqa: E731  (option, part) onto rows
         d0_old = Q["d0"].copy()
@@ -495,12 +482,32 @@ def _build(base: Base, name: str, options: list[Option], method: str, fac: dict)
         for key in ("c_pos", "c_neg"):
             if key in Q:
                 Q[key] = width / 2 - Q["d0"] / 2
-        e3 = end.reshape(na, nq, nc)[:, :, 0]
-        w3 = width.reshape(na, nq, nc)[:, :, 0]
-        for i in range(na):
-            geometry[i] = {lab: (float(t_part[i, j]), float(e3[i, j]), float(w3[i, j]))
-                           for j, lab in enumerate(base.parts[name])}
+        geometry[:, :, 0] = t_part
+        geometry[:, :, 1] = end.reshape(na, nq, nc)[:, :, 0]
+        geometry[:, :, 2] = width.reshape(na, nq, nc)[:, :, 0]
     return P, Q, reasons, geometry, strengths
+
+
+def _plates_of_option(o: Option, members, plate_of, t_row, fy_row, fu_row, E_row, geo_row, why: str) -> str:
+    """Fill one option's per-part thickness, material strengths and given geometry; the first problem."""
+    thick, pmat = dict(o.thickness), dict(o.plate_material)
+    geo = {m: (e, w) for m, e, w in o.geometry}
+    for j, m in enumerate(members):
+        t = thick.get(m, t_row[j])
+        t_row[j] = t
+        plate = plate_of[m]
+        mname = pmat.get(m)
+        if mname is None and m in thick and _from_library(plate.material):
+            mname = plate.material.name
+        if mname is not None:
+            mm = _material(mname, t)
+            if isinstance(mm, str):
+                why = why or f"{m}: {mm}"
+            else:
+                fy_row[j], fu_row[j], E_row[j] = mm.fy, mm.fu, mm.E
+        if m in geo:
+            geo_row[j] = geo[m]
+    return why
 
 
 def _stack_index(pin, label: str) -> int | None:
@@ -555,84 +562,101 @@ def _utils(checks, n, kinds=None):
 def evaluate(base: Base, requests: dict[str, list[Option]]) -> dict[str, PinSweep]:
     """Evaluate every option of every pin in ``requests`` (pin -> options), one kernel call per method."""
     job = base.job
-    out_parts: dict[str, dict] = {}
-    by_method: dict[str, list[tuple[str, list[int]]]] = {}
+    by_method: dict[str, list[tuple[str, int]]] = {}
     for name, opts in requests.items():
         if name not in base.pin_rows:
             raise InputError(Problem(job.path, f"pin.{name}", "", "is not a checked pin of the job (it has no stack "
                                      "of plates); checked pins: " + ", ".join(base.pin_rows)))
         for i, o in enumerate(opts):
             by_method.setdefault(o.method or job.method.name, []).append((name, i))
+    acc = {}
     for name, opts in requests.items():
-        na = len(opts)
-        out_parts[name] = {
-            "util": np.full(na, np.nan), "check": [""] * na, "part": [""] * na, "case": [""] * na,
-            "part_util": np.full((na, 1 + len(base.parts[name])), np.nan), "check_util": {},
-            "reason": [""] * na, "part_check": [()] * na, "geometry": [dict() for _ in range(na)], "strengths": [(np.nan, np.nan)] * na}
+        na, nq = len(opts), len(base.parts[name])
+        acc[name] = {"util": np.full(na, np.nan), "check": np.full(na, "", dtype=object),
+                     "part": np.full(na, "", dtype=object), "case": np.full(na, "", dtype=object),
+                     "part_util": np.full((na, 1 + nq), np.nan), "part_check": np.zeros((na, 1 + nq), np.intp),
+                     "reason": [""] * na, "geo": np.zeros((na, nq, 3)), "strengths": np.zeros((na, 2)),
+                     "check_util": {}}
     nc = base.nc
     kinds: dict[str, str] = {}
+    names_all: list[str] = []
     for method, items in by_method.items():
         mod = METHODS[method]
         same = method == job.method.name
         fac = factors_for(mod, job.method.factors if same else {})
         variant = job.method.variant if same else (mod.VARIANTS[0] if mod.VARIANTS else None)
-        groups = {}
+        groups: dict[str, list[int]] = {}
         for name, i in items:
             groups.setdefault(name, []).append(i)
         Ps, Qs, meta = [], [], []
         for name, ix in groups.items():
-            opts = [requests[name][i] for i in ix]
-            P, Q, reasons, geo, strengths = _build(base, name, opts, method, fac)
+            P, Q, reasons, geo, strengths = _build(base, name, [requests[name][i] for i in ix], method, fac)
             Ps.append(P)
             Qs.append(Q)
-            meta.append((name, ix, reasons, geo, strengths))
+            meta.append((name, np.array(ix), reasons, geo, strengths))
         Pa = {k: np.concatenate([p[k] for p in Ps]) for k in Ps[0]} if Ps and Ps[0] else {}
-        qkeys = [q for q in Qs if q]
-        Qa = {k: np.concatenate([q[k] for q in qkeys]) for k in qkeys[0]} if qkeys else {}
+        qk = [q for q in Qs if q]
+        Qa = {k: np.concatenate([q[k] for q in qk]) for k in qk[0]} if qk else {}
         pn, pu = _utils(mod.pin_checks(Pa, fac, variant), len(Pa["d"]), kinds) if Pa else ([], np.zeros((0, 0)))
         qn, qu = _utils(mod.plate_checks(Qa, fac, variant), len(Qa["d"]), kinds) if Qa else ([], np.zeros((0, 0)))
+        allc = pn + qn
+        cix = []
+        for c in allc:
+            if c not in names_all:
+                names_all.append(c)
+            cix.append(names_all.index(c))
+        cix = np.array(cix, np.intp)
         op = oq = 0
         for name, ix, reasons, geo, strengths in meta:
             na, nq = len(ix), len(base.parts[name])
-            up = pu[:, op:op + na * nc].reshape(len(pn), na, nc)
-            uq = qu[:, oq:oq + na * nq * nc].reshape(len(qn), na, nq, nc) if nq else np.zeros((len(qn), na, 0, nc))
+            up = pu[:, op:op + na * nc].reshape(len(pn), na, 1, nc)
+            uq = qu[:, oq:oq + na * nq * nc].reshape(len(qn), na, nq, nc)
             op += na * nc
             oq += na * nq * nc
-            # (check, option, part, case) with the pin as part 0
-            allc = pn + qn
-            U = np.full((len(allc), na, 1 + nq, nc), -np.inf)
-            U[:len(pn), :, 0, :] = up
-            U[len(pn):, :, 1:, :] = uq
-            flat = U.transpose(1, 0, 2, 3).reshape(na, -1)
-            k = flat.argmax(axis=1)
-            umax = flat[np.arange(na), k]
-            ci, pi, ki = np.unravel_index(k, (len(allc), 1 + nq, nc))
-            o = out_parts[name]
-            labels = ("pin",) + base.parts[name]
-            pu_ = U.max(axis=(0, 3))
-            pc_ = U.max(axis=3).argmax(axis=0)  # (option, part): index of the governing check
-            for r, i in enumerate(ix):
-                o["reason"][i] = reasons[r]
-                o["geometry"][i] = geo[r]
-                o["strengths"][i] = strengths[r]
-                if reasons[r]:
-                    continue
-                o["util"][i] = umax[r]
-                o["check"][i], o["part"][i], o["case"][i] = allc[ci[r]], labels[pi[r]], base.cases[ki[r]]
-                o["part_util"][i] = pu_[r]
-                o["part_check"][i] = tuple(allc[c] for c in pc_[r])
-            cu = U.max(axis=(2, 3))  # (check, option)
+            # per (check, option, part): the largest over the cases; the pin is part 0
+            cp = np.full((len(allc), na, 1 + nq), -np.inf)
+            cp[:len(pn), :, :1] = up.max(axis=3)
+            cp[len(pn):, :, 1:] = uq.max(axis=3)
+            a = acc[name]
+            pk = cp.argmax(axis=0)  # (option, part)
+            pmax = np.take_along_axis(cp, pk[None], axis=0)[0]
+            better = ~(pmax <= np.nan_to_num(a["part_util"][ix], nan=-np.inf))
+            a["part_util"][ix] = np.where(better, pmax, a["part_util"][ix])
+            a["part_check"][ix] = np.where(better, cix[pk], a["part_check"][ix])
+            best_part = pmax.argmax(axis=1)
+            umax = pmax[np.arange(na), best_part]
+            chk = pk[np.arange(na), best_part]
+            # the case of the governing (check, part)
+            case_ix = np.empty(na, np.intp)
+            on_pin = best_part == 0
+            if on_pin.any():
+                r = np.flatnonzero(on_pin)
+                case_ix[r] = up[chk[r], r, 0, :].argmax(axis=1)
+            if (~on_pin).any():
+                r = np.flatnonzero(~on_pin)
+                case_ix[r] = uq[chk[r] - len(pn), r, best_part[r] - 1, :].argmax(axis=1)
+            ok = np.array([not x for x in reasons])
+            labels = np.array(("pin",) + base.parts[name], dtype=object)
+            a["util"][ix] = np.where(ok, umax, np.nan)
+            a["check"][ix] = np.where(ok, np.array(allc, dtype=object)[chk], "")
+            a["part"][ix] = np.where(ok, labels[best_part], "")
+            a["case"][ix] = np.where(ok, np.array(base.cases, dtype=object)[case_ix], "")
+            a["geo"][ix] = geo
+            a["strengths"][ix] = strengths
+            for r_, i in enumerate(ix):
+                a["reason"][i] = reasons[r_]
+            cu = cp.max(axis=2)  # (check, option)
             for c, cname in enumerate(allc):
-                arr = o["check_util"].setdefault(cname, np.full(len(requests[name]), -np.inf))
+                arr = a["check_util"].setdefault(cname, np.full(len(requests[name]), -np.inf))
                 arr[ix] = np.maximum(arr[ix], cu[c])
-    return {name: PinSweep(name, tuple(requests[name]), tuple(o["reason"]), o["util"], tuple(o["check"]),
-                           tuple(o["part"]), tuple(o["case"]), ("pin",) + base.parts[name], o["part_util"],
-                           o["check_util"], tuple(o["part_check"]), tuple(o["geometry"]), tuple(o["strengths"]),
-                           dict(kinds))
-            for name, o in out_parts.items()}
+    return {name: PinSweep(name, tuple(requests[name]), tuple(a["reason"]), a["util"], tuple(a["check"]),
+                           tuple(a["part"]), tuple(a["case"]), ("pin",) + base.parts[name], a["part_util"],
+                           a["check_util"], tuple(names_all), a["part_check"], a["geo"], a["strengths"], dict(kinds))
+            for name, a in acc.items()}
 
 
-def apply_option(job: Job, name: str, opt: Option, geometry: dict[str, tuple[float, float, float]] | None = None) -> Job:
+def apply_option(job: Job, name: str, opt: Option,
+                 geometry: dict[str, tuple[float, float, float]] | None = None) -> Job:
     """The job with pin ``name`` built as ``opt`` (to check it through the ordinary path).
 
     ``geometry`` (part -> (t, end, width), as an evaluation reports it) sets every plate's end and width.
@@ -685,8 +709,8 @@ class Comparison:
 def _rank(sw: PinSweep, i: int, pin) -> tuple:
     o = sw.options[i]
     d = pin.diameter if o.diameter is None else o.diameter
-    t = sum(g[0] for g in sw.geometry[i].values()) if sw.geometry[i] else 0.0
-    fu_pin, fu_plate = sw.strengths[i]
+    t = float(sw.geo[i, :, 0].sum()) if sw.geo is not None and sw.geo.size else 0.0
+    fu_pin, fu_plate = (float(x) for x in sw.strengths[i])
     return (round(d, 9), round(t, 9), fu_pin, fu_plate)
 
 
@@ -981,11 +1005,11 @@ def _size_one(base: Base, name: str, D, T, step) -> Sized:
                     s = u_t(t_exact[m] * (1 - 1e-5))[1]
                     cols = [1 + j for j, mm in enumerate(base.part_member[name]) if mm == m]
                     j = max(cols, key=lambda c: s.part_util[0, c])
-                    t_check[m] = s.part_check[0][j]
+                    t_check[m] = s.part_check(0, j)
             except ValueError:
                 pass
     return Sized(name, opt, float(sw2.util[chosen]), (sw2.check[chosen], sw2.part[chosen], sw2.case[chosen]),
-                 sw2.geometry[chosen], smaller, s_util, s_gov, s_note, d_exact, d_check, t_exact, t_check)
+                 sw2.geometry(chosen), smaller, s_util, s_gov, s_note, d_exact, d_check, t_exact, t_check)
 
 
 def _what_of(D, job, name):
@@ -1004,7 +1028,7 @@ def sized_job(job: Job, sizing: Sizing, smaller: bool = False, name: str | None 
                 continue
             base = prepare(job)
             sw = evaluate(base, {n: [s.smaller]})[n]
-            job = apply_option(job, n, s.smaller, sw.geometry[0])
+            job = apply_option(job, n, s.smaller, sw.geometry(0))
         else:
             job = apply_option(job, n, s.option, s.geometry)
     return job
