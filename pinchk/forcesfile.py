@@ -761,7 +761,7 @@ def joint_forces(job) -> FrameSolution:
     """The joint forces of ``job``: read from its forces file if it names one, else solved from its frame."""
     if job.forces is not None:
         return job.forces.solution
-    from .frame import solve
+    from .solve import solve  # statics, or stiffness for an indeterminate frame
 
     return solve(job)
 

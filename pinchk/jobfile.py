@@ -11,7 +11,7 @@ import os
 import tomllib
 from typing import Any
 
-from . import materials
+from . import materials, sections
 from .errors import Collector, InputError, Problem
 from .model import (GROUND, PIN_LOAD, Body, Case, Job, Link, Load, Material, MethodChoice, Pin, Place,
                     Plate, Support)
@@ -20,19 +20,20 @@ from .units import G0, UNIT_SYSTEMS, QuantityError, check_unit, to_si
 MAX_FILE_BYTES = 4 * 1024 * 1024  # a job file is text typed by a person; anything larger is refused
 
 KEYS = {
-    "": {"job", "units", "method", "material", "body", "pin", "link", "support", "case", "load", "forces",
-         "combination", "lift_factors"},
+    "": {"job", "units", "method", "material", "section", "body", "pin", "link", "support", "case", "load",
+         "forces", "combination", "lift_factors"},
     "forces": {"file", "balance_tol"},
-    "job": {"title", "output_units", "number", "revision", "prepared_by", "checked_by", "date", "client"},
+    "job": {"title", "output_units", "number", "revision", "prepared_by", "checked_by", "date", "client",
+            "solver"},
     "units": set(UNIT_SYSTEMS["SI"]),
     "method": {"name", "design", "factors"},
     "material": {"fy", "fu", "E", "source"},
-    "body": {"points", "description"},
+    "body": {"points", "description", "section", "members"},
     "pin": {"joins", "at", "diameter", "hole", "material", "replaceable", "rotates", "plate", "description",
             "secured", "bolt", "thread_pitch", "thread_planes", "thread_plates"},
     "plate": {"member", "thickness", "material", "width", "end", "shape", "gap", "hole", "share", "en_type",
               "stiffened"},
-    "link": {"ends", "kind", "description"},
+    "link": {"ends", "kind", "description", "EA"},
     "support": {"at", "kind", "normal", "description"},
     "case": {"description", "limit_state"},
     "load": {"case", "at", "body", "force", "angle", "mass", "moment", "label"},
@@ -193,7 +194,8 @@ def parse_job(data: dict[str, Any], path: str = "<job>", text: str = "") -> Job:
     r.keys("job", jt, "job")
     title = r.text_field("job", jt, "title", default="(untitled job)")
     output_units = r.text_field("job", jt, "output_units", choices=list(UNIT_SYSTEMS), default="SI")
-    info = {k: str(v) for k, v in jt.items() if k in KEYS["job"] - {"title", "output_units"}}
+    info = {k: str(v) for k, v in jt.items() if k in KEYS["job"] - {"title", "output_units", "solver"}}
+    solver = r.text_field("job", jt, "solver", choices=list(sections.SOLVER_CHOICES), default="auto")
 
     method = _method(r, data)
     job_materials = _materials(r, data)
@@ -202,11 +204,12 @@ def parse_job(data: dict[str, Any], path: str = "<job>", text: str = "") -> Job:
 
     forces, forces_table = source_of(r, data, path)
     frameless = forces is not None and "body" not in data
-    bodies = _bodies(r, data, required=forces is None)
+    bodies = sections.attach_to_bodies(r, data, _bodies(r, data, required=forces is None),
+                                       sections.read_sections(r, data))
     cases = _cases(r, data)
     pin_tables = r.table(data, "pin", "")
     pins_partial = _pins_frame(r, pin_tables, bodies) if not frameless else _pins_frameless(r, pin_tables)
-    links = _links(r, data, bodies, pins_partial) if not frameless else {}
+    links = sections.attach_to_links(r, data, _links(r, data, bodies, pins_partial)) if not frameless else {}
     supports = _supports(r, data, bodies, pins_partial, required=forces is None) if not frameless else {}
     loads = _loads(r, data, bodies, pins_partial, cases, required=forces is None) if not frameless else []
     pins = _pins_stack(r, pin_tables, pins_partial, links, supports, loads, job_materials, frameless)
@@ -218,7 +221,7 @@ def parse_job(data: dict[str, Any], path: str = "<job>", text: str = "") -> Job:
 
     job = Job(path=path, title=title, method=method, output_units=output_units, bodies=bodies, pins=pins,
               links=links, supports=supports, loads=tuple(loads), cases=cases, info=info, forces=forces,
-              combinations=combos, stack_factors=stack_factors)
+              combinations=combos, stack_factors=stack_factors, solver=solver)
     if forces_table is not None:
         job, problems = attach(job, forces_table, pin_tables, not r.c.problems,
                                lambda table: _line_of(text, table, ""))

@@ -25,11 +25,30 @@ class Material:
 
 
 @dataclass(frozen=True)
+class Section:
+    """Elastic section of a member for the stiffness solve: E [Pa], A [m^2], I [m^4]."""
+
+    name: str
+    E: float
+    A: float
+    I: float
+    source: str = ""
+
+
+@dataclass(frozen=True)
 class Body:
-    """A rigid body with named points (x, y) [m]."""
+    """A body with named points (x, y) [m]: rigid for statics; beam members for the stiffness solve.
+
+    ``members`` are the pairs of points joined by beam elements (empty: a chain in point order);
+    ``section`` their elastic section (None: the body has none, and only statics can solve it);
+    ``member_sections`` the members whose section differs from the body's.
+    """
 
     name: str
     points: dict[str, tuple[float, float]]
+    section: Section | None = None
+    members: tuple[tuple[str, str], ...] = ()
+    member_sections: dict[tuple[str, str], Section] = field(default_factory=dict)
 
 
 @dataclass(frozen=True)
@@ -98,6 +117,7 @@ class Link:
     name: str
     kind: str  # "link" or "cable"
     ends: tuple[Place, Place]
+    EA: float | None = None  # axial stiffness [N] for the stiffness solve; None: axially rigid
 
 
 @dataclass(frozen=True)
@@ -188,6 +208,7 @@ class Job:
     loads: tuple[Load, ...]
     cases: dict[str, Case]
     info: dict[str, str] = field(default_factory=dict)
+    solver: str = "auto"  # frame solve: "auto", "statics" or "stiffness" (pinchk.solve)
     forces: ForcesSource | None = None  # set when the job reads its joint forces from a forces file
     combinations: dict[str, Combination] = field(default_factory=dict)  # empty: each case on its own
     stack_factors: tuple[StackFactor, ...] = ()

@@ -22,6 +22,8 @@ SI_UNIT = {
     "moment": "N*m",
     "mass": "kg",
     "angle": "rad",
+    "section area": "m^2",  # section area of a member (stiffness solve)
+    "second moment of area": "m^4",  # second moment of area of a member's section (stiffness solve)
 }
 
 #: Output unit systems: the unit printed for each kind of figure.
@@ -71,6 +73,8 @@ def _example(dim: str) -> str:
         "moment": '"12 kN*m" or "100 kip*in"',
         "mass": '"2.5 t" or "5000 lb"',
         "angle": '"30 deg"',
+        "section area": '"5380 mm^2" or "8.34 in^2"',
+        "second moment of area": '"8.36e7 mm^4" or "201 in^4"',
     }[dim]
 
 
