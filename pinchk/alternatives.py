@@ -968,27 +968,11 @@ def _size_one(base: Base, name: str, D, T, step) -> Sized:
                 s_note = swj.reason[0]
     # exact diameter: plates as chosen, edge distances not rounded
     d_exact, d_check = None, ""
-
-    def u_d(d):
-        o = replace(opt, diameter=float(d), round_to=None)
-        s = evaluate(base, {name: [o]})[name]
-        return (float(s.util[0]) if not s.reason[0] else math.inf), s.check[0]
-
     if "pin" in _what_of(D, job, name):
-        hi = opt.diameter
-        lo = D[gi - 1] if gi > 0 else hi / 2
-        try:
-            ulo, _ = u_d(lo)
-            shrink = 0
-            while ulo <= 1.0 and shrink < 8:
-                lo /= 1.5
-                ulo, _ = u_d(lo)
-                shrink += 1
-            if ulo > 1.0 and u_d(hi)[0] <= 1.0:
-                d_exact = brentq(lambda x: u_d(x)[0] - 1.0, lo, hi, xtol=1e-11, rtol=1e-12)
-                d_check = u_d(d_exact * (1 - 1e-5))[1]  # the check that fails a hair below
-        except ValueError:
-            d_exact = None
+        d_exact = diameter_limit(base, name, opt, lo=D[gi - 1] if gi > 0 else None)
+        if d_exact is not None:
+            s = evaluate(base, {name: [replace(opt, diameter=d_exact * (1 - 1e-5), round_to=None)]})[name]
+            d_check = s.check[0]  # the check that fails a hair below
     t_exact, t_check = {}, {}
     if T is not None:
         th0 = dict(opt.thickness)
@@ -1010,6 +994,44 @@ def _size_one(base: Base, name: str, D, T, step) -> Sized:
                 pass
     return Sized(name, opt, float(sw2.util[chosen]), (sw2.check[chosen], sw2.part[chosen], sw2.case[chosen]),
                  sw2.geometry(chosen), smaller, s_util, s_gov, s_note, d_exact, d_check, t_exact, t_check)
+
+
+def diameter_limit(base: Base, name: str, option: Option, check: str | None = None, lo: float | None = None,
+                   hi: float | None = None) -> float | None:
+    """The pin diameter at which ``check`` (default: the largest utilization of every check) of pin ``name``
+    reaches 1, everything else as ``option`` (materials at each size, derived edge distances unrounded).
+
+    Found with scipy.optimize.brentq between a diameter that fails and one that passes (searched from
+    ``lo``/``hi`` or from the option's diameter); None where no such bracket is found.
+    """
+    d0 = base.job.pins[name].diameter if option.diameter is None else option.diameter
+
+    def u(d):
+        sw = evaluate(base, {name: [replace(option, diameter=float(d), round_to=None)]})[name]
+        if sw.reason[0]:
+            return math.inf
+        if check is None:
+            return float(sw.util[0])
+        if check not in sw.check_util:
+            raise InputError(Problem(base.job.path, f"pin.{name}", "check", f"no check {check!r}; the checks are: "
+                                     + ", ".join(sw.check_util)))
+        return float(sw.check_util[check][0])
+
+    hi = hi or d0
+    k = 0
+    while not u(hi) <= 1.0:
+        hi *= 1.5
+        k += 1
+        if k > 8:
+            return None
+    lo = lo or hi / 1.5
+    k = 0
+    while u(lo) <= 1.0:
+        lo /= 1.5
+        k += 1
+        if k > 12:
+            return None
+    return float(brentq(lambda x: u(x) - 1.0, lo, hi, xtol=1e-11, rtol=1e-12))
 
 
 def _what_of(D, job, name):

@@ -1,0 +1,302 @@
+"""Tests of pinchk.alternatives: compare, size and rate.
+
+Sources of the check values:
+- EN 1993-1-8:2005 Table 3.10 (pin shear Fv,Rd = 0.6 A fup / γM2, bending MRd = 1.5 Wel fyp / γM0 and
+  their interaction (MEd/MRd)² + (Fv,Ed/Fv,Rd)² ≤ 1), Fig. 3.11 (clevis moment MEd = F (b + 4c + 2a)/8),
+  Table 3.9 type A (a ≥ F γM0/(2 t fy) + 2 d0/3); γM0 = 1.00 (EN 1993-1-1 §6.1), γM2 = 1.25 (§2.2).
+- EN 10083-3 (42CrMo4 +QT: Re/Rm 900/1100 MPa for d ≤ 16 mm, 750/1000 MPa for 16 < d ≤ 40 mm) and
+  ISO 898-1:2013 Table 3 (class 4.6: fub 400, fyb 240 MPa), as in data/materials.csv and data/bolt_grades.csv.
+- ASME BTH-1 §3-3.3.3 bearing Fp = 1.25 Fy / Nd on Dp t (the value the project marks "from memory").
+- sympy's nsolve as an independent solver of the governing equation.
+The frames are the invented demo jobs of examples/.
+"""
+
+from __future__ import annotations
+
+import json
+import math
+import os
+from dataclasses import replace
+
+import numpy as np
+import pytest
+import sympy as sp
+
+from pinchk import alternatives as alt
+from pinchk import load_job, run
+from pinchk.cli import main
+
+HERE = os.path.dirname(__file__)
+EX = os.path.join(HERE, "..", "examples")
+GANTRY = os.path.join(EX, "a_frame_gantry.toml")
+SPREADER = os.path.join(EX, "spreader_frame_bth1.toml")
+
+
+@pytest.fixture(scope="module")
+def gantry():
+    return load_job(GANTRY)
+
+
+@pytest.fixture(scope="module")
+def spreader():
+    return load_job(SPREADER)
+
+
+def _pin_max(res, name):
+    sel = [i for i in range(len(res)) if res.columns["pin"][i] == name]
+    return float(res.columns["utilization"][sel].max())
+
+
+# ------------------------------------------------------------------------------------- the engine itself
+
+
+@pytest.mark.parametrize("path", [GANTRY, SPREADER, os.path.join(EX, "jib_bracket_aisc.toml")])
+def test_as_the_job_equals_the_ordinary_run(path):
+    """The recorded columns, re-evaluated unchanged, give run_checks' utilization for every pin."""
+    job = load_job(path)
+    base = alt.prepare(job)
+    res = run(job)
+    sw = alt.evaluate(base, {n: [alt.Option("job")] for n in base.pin_rows})
+    for n, s in sw.items():
+        assert s.util[0] == pytest.approx(_pin_max(res, n), rel=1e-12)
+
+
+def test_options_agree_with_the_ordinary_path(gantry):
+    """Changed diameter, grade, thickness and plate material: the vectorized sweep equals a full run of the
+    job rebuilt with that option (apply_option), pin by pin."""
+    base = alt.prepare(gantry)
+    opts = [alt.Option("a", diameter=0.036),
+            alt.Option("b", diameter=0.024, grade="8.8"),
+            alt.Option("c", thickness=(("tie", 0.010),)),
+            alt.Option("d", diameter=0.027, thickness=(("tie", 0.015), ("leg_left", 0.025)), plate_material=(
+                ("tie", "S275"),)),
+            alt.Option("e", method="AISC 360-16")]
+    sw = alt.evaluate(base, {"PL": opts})["PL"]
+    for i, o in enumerate(opts):
+        job2 = alt.apply_option(gantry, "PL", o, sw.geometry(i))
+        if o.method:
+            job2 = replace(job2, method=replace(job2.method, name=o.method, variant="ASD", factors={}))
+        assert sw.util[i] == pytest.approx(_pin_max(run(job2), "PL"), rel=1e-9), o.label
+
+
+# ------------------------------------------------------------------------------------------------ compare
+
+
+def test_compare_marks_the_lowest_grade_that_passes_at_the_smallest_diameter(gantry):
+    """Grade comparison of the tie clevis pin PL; the mark is checked against an ordinary run of every option."""
+    cmp = alt.compare(gantry, pins=["PL"], grades=alt.Every(alt.bolt_grade_names()),
+                      diameters=[0.020, 0.024, 0.030])
+    sw = cmp.sweeps["PL"]
+    assert cmp.skipped["PL"]  # ASTM A307 has no yield strength: left out, and said so
+    passing = []
+    for i, o in enumerate(sw.options):
+        job2 = alt.apply_option(gantry, "PL", o, sw.geometry(i))
+        u = _pin_max(run(job2), "PL")
+        assert sw.util[i] == pytest.approx(u, rel=1e-9)
+        if u <= 1.0:
+            mat = job2.pins["PL"].material
+            passing.append((round(o.diameter, 9), mat.fu, i))
+    expect = min(passing)[2]
+    assert cmp.marked["PL"] == expect
+    assert sw.options[expect].diameter == 0.020
+
+
+def test_grade_4_6_interaction_by_hand(gantry):
+    """PL with an ISO 898-1 class 4.6 pin of 24 mm: EN 1993-1-8 Table 3.10 interaction by hand.
+
+    Clevis: tie plates a = 12 mm outside, leg plate b = 20 mm inside, gaps c = 1 mm (the example's stack);
+    MEd = F (b + 4c + 2a)/8 (Fig. 3.11), Fv,Ed = F/2; fub = 400, fyb = 240 MPa (ISO 898-1 Table 3).
+    """
+    cmp = alt.compare(gantry, pins=["PL"], grades=["4.6"], diameters=[0.024])
+    sw = cmp.sweeps["PL"]
+    F = float(np.linalg.norm(run(gantry).solution.pins["PL"].force, axis=-1).max())
+    d, a, b, c = 0.024, 0.012, 0.020, 0.001
+    M, V = F * (b + 4 * c + 2 * a) / 8, F / 2
+    M_Rd = 1.5 * (math.pi * d**3 / 32) * 240e6 / 1.00
+    Fv_Rd = 0.6 * (math.pi * d**2 / 4) * 400e6 / 1.25
+    assert sw.check[0] == "pin shear + bending"
+    assert sw.util[0] == pytest.approx((M / M_Rd) ** 2 + (V / Fv_Rd) ** 2, rel=1e-9)
+    assert cmp.marked["PL"] is None  # it fails, and it is the only option
+
+
+def test_method_comparison_is_not_ranked(gantry):
+    cmp = alt.compare(gantry, pins=["PL"], methods=["EN 1993-1-8", "AISC 360-16", "ASME BTH-1"])
+    assert [o.method for o in cmp.sweeps["PL"].options] == ["EN 1993-1-8", "AISC 360-16", "ASME BTH-1"]
+    assert cmp.marked["PL"] is None and not cmp.ranked
+    assert any("same joint forces" in n for n in cmp.notes)
+
+
+# ------------------------------------------------------------------------------------------------ size
+
+
+@pytest.mark.parametrize("path,what", [(GANTRY, ("pin",)), (SPREADER, ("pin", "plates"))])
+def test_size_passes_and_next_smaller_fails(path, what):
+    """Every pin of the demo: the job rebuilt at the sizes found passes every check (ordinary run), and each
+    pin at its next smaller series diameter fails."""
+    job = load_job(path)
+    sz = alt.size(job, what=what)
+    assert sz.found
+    res = run(alt.sized_job(job, sz))
+    assert res.passed
+    for n, s in sz.sized.items():
+        assert s.smaller is not None, n
+        assert s.smaller.diameter < s.option.diameter
+        D, _ = alt.series_values("pin", alt.default_series(job, "pin"))
+        assert D[D.index(s.option.diameter) - 1] == s.smaller.diameter
+        u = _pin_max(run(alt.sized_job(job, sz, smaller=True, name=n)), n)
+        assert u > 1.0, n
+        assert u == pytest.approx(s.smaller_util, rel=1e-9)
+        assert s.d_exact is not None and s.smaller.diameter < s.d_exact <= s.option.diameter
+
+
+def test_sized_diameter_solves_the_interaction_equation_by_hand(gantry):
+    """P_foot_left, pin only (plates as the job): the exact diameter is where EN 1993-1-8 Table 3.10
+    (MEd/MRd)² + (Fv,Ed/Fv,Rd)² = 1, solved here with sympy for d.
+
+    Clevis of the example: ground plates a = 16 mm, leg b = 25 mm, gaps c = 2 mm; MEd = F (b + 4c + 2a)/8,
+    Fv,Ed = F/2; 42CrMo4+QT at 16 < d ≤ 40 mm: fyp = 750, fup = 1000 MPa (EN 10083-3); γM0 = 1.00, γM2 = 1.25.
+    """
+    sz = alt.size(gantry, pins=["P_foot_left"], what=("pin",))
+    s = sz.sized["P_foot_left"]
+    F = float(np.linalg.norm(run(gantry).solution.pins["P_foot_left"].force, axis=-1).max())
+    a, b, c = 0.016, 0.025, 0.002
+    x = sp.symbols("x", positive=True)  # d in mm, so the solver sees numbers near 1
+    d = x / 1000
+    M, V = F * (b + 4 * c + 2 * a) / 8, F / 2
+    eq = (M / (1.5 * sp.pi * d**3 / 32 * 750e6 / 1.00)) ** 2 + (V / (0.6 * sp.pi * d**2 / 4 * 1000e6 / 1.25)) ** 2 - 1
+    d_hand = float(sp.nsolve(eq, x, 18)) / 1000
+    assert 0.016 < d_hand <= 0.040  # inside the size band whose strengths were used
+    assert s.d_exact_check == "pin shear + bending"
+    assert s.d_exact == pytest.approx(d_hand, rel=1e-8)
+    assert s.option.diameter == 0.018  # the next diameter of the ISO 2341 series above it (16 fails)
+
+
+def test_pin_shear_limit_by_hand(gantry):
+    """The diameter at which EN 1993-1-8 Table 3.10 pin shear alone reaches 1: 0.6 (π d²/4) fup / γM2 = V,
+    d = √(4 V γM2 / (0.6 π fup)), with V = F/2 in the clevis and fup = 1100 MPa (42CrMo4+QT, d ≤ 16 mm)."""
+    base = alt.prepare(gantry)
+    F = float(np.linalg.norm(base.sol.pins["P_foot_left"].force, axis=-1).max())
+    d_hand = math.sqrt(4 * (F / 2) * 1.25 / (0.6 * math.pi * 1100e6))
+    assert d_hand <= 0.016
+    d = alt.diameter_limit(base, "P_foot_left", alt.Option("pin", detail=True), check="pin shear")
+    assert d == pytest.approx(d_hand, rel=1e-8)
+
+
+def test_bth1_bearing_thickness_by_hand(spreader):
+    """Spreader pin P_A, sized: the exact thickness of the strut plates is where ASME BTH-1 bearing
+    Fp Dp t = F, Fp = 1.25 Fy / Nd (Nd = 3.00, Design Category B; Fy = 355 MPa, S355 t ≤ 16 mm, EN 10025-2),
+    so t = F Nd / (1.25 Fy Dp), with F the force on one strut plate (from the sized job's run)."""
+    sz = alt.size(spreader, pins=["P_A"])
+    s = sz.sized["P_A"]
+    assert s.t_exact_check["strut_left"] == "bearing"
+    job2 = alt.sized_job(spreader, sz)
+    res = run(job2)
+    rows = [i for i in range(len(res)) if res.columns["pin"][i] == "P_A" and res.columns["check"][i] == "bearing"
+            and res.columns["part"][i].startswith("strut_left")]
+    F = float(res.columns["demand"][rows].max())
+    t_hand = F * 3.00 / (1.25 * 355e6 * s.option.diameter)
+    assert s.t_exact["strut_left"] == pytest.approx(t_hand, rel=1e-8)
+
+
+# ------------------------------------------------------------------------------------------------ rate
+
+
+def test_rate_linear_case_is_the_hand_limit(spreader):
+    """Every load of the BTH-1 spreader scaled: the governing bearing check is proportional to the load, so
+    the limit is capacity / demand of that row (ASME BTH-1 bearing, 1.25 Fy/Nd Dp t with Fy 355 MPa,
+    Nd 3.00, Dp 36 mm, t 16 mm)."""
+    rt = alt.rate(spreader)
+    res = run(spreader)
+    g = res.row(res.governing)
+    assert g["check"] == "bearing" and g["pin"] == "P_B"
+    cap = 1.25 * 355e6 / 3.00 * 0.036 * 0.016
+    assert g["capacity"] == pytest.approx(cap, rel=1e-12)
+    assert rt.factor == pytest.approx(cap / g["demand"], rel=1e-7)
+    assert rt.factor == pytest.approx(rt.linear_estimate, rel=1e-7)
+    assert rt.limit == "check" and rt.governing["check"] == "bearing"
+
+
+def test_rate_affine_detailing_rule_is_not_a_division(gantry):
+    """Only case 'lift' scaled. The limit is the EN 1993-1-8 Table 3.9 type A end distance of a tie plate,
+    whose demand F γM0/(2 t fy) + 2 d0/3 is affine in the load: the factor is (a − 2 d0/3)/(F γM0/(2 t fy))
+    by hand, not 1/utilization."""
+    rt = alt.rate(gantry, case="lift")
+    assert rt.governing["check"] == "end distance (type A)"
+    assert rt.governing["case"] == "lift"
+    res = run(gantry)
+    i = next(i for i in range(len(res)) if res.columns["pin"][i] == rt.governing["pin"]
+             and res.columns["part"][i] == rt.governing["part"] and res.columns["check"][i] == "end distance (type A)"
+             and res.columns["case"][i] == "lift")
+    plate = next(p for p in gantry.pins[rt.governing["pin"]].stack
+                 if rt.governing["part"].startswith(p.member) and p.checked)
+    d0 = plate.hole
+    a = plate.end - d0 / 2
+    load_part = res.columns["demand"][i] - 2 * d0 / 3  # F γM0 / (2 t fy) at factor 1
+    lam_hand = (a - 2 * d0 / 3) / load_part
+    assert rt.factor == pytest.approx(lam_hand, rel=1e-7)
+    plain = res.columns["capacity"][i] / res.columns["demand"][i]
+    assert abs(rt.factor - plain) > 0.1  # a plain division would be far off
+    assert any("affine" in r for r in rt.reasons)
+
+
+def test_rate_interaction_is_solved_not_divided(gantry):
+    """With pin PL at 20 mm (grade 4.6) the EN 1993-1-8 interaction governs; it is quadratic in the load,
+    so the limit factor is 1/√u, not 1/u (every load scaled, the frame linear)."""
+    job = alt.apply_option(gantry, "PL", alt.Option("x", diameter=0.020, grade="4.6"))
+    res = run(job)
+    g = res.row(res.governing)
+    assert g["check"] == "pin shear + bending"
+    rt = alt.rate(job)
+    assert rt.factor == pytest.approx(1 / math.sqrt(g["utilization"]), rel=1e-7)
+    assert any("nonlinearly" in r for r in rt.reasons)
+
+
+# ------------------------------------------------------------------------------------------------ CLI
+
+
+def test_cli_compare_json_and_csv(tmp_path, capsys):
+    out = tmp_path / "cmp.json"
+    rc = main(["compare", GANTRY, "--pin", "PL", "--grade", "4.6,8.8", "--diameter", "20,24 mm", "--format", "json",
+               "--output", str(out)])
+    assert rc == 0
+    d = json.loads(out.read_text())
+    alts = d["pins"][0]["alternatives"]
+    assert len(alts) == 4 and sum(a["marked"] for a in alts) == 1
+    assert d["pins"][0]["marked"] == "d 20 mm · grade 8.8"
+    capsys.readouterr()
+    rc = main(["compare", GANTRY, "--pin", "PL", "--grade", "4.6", "--diameter", "16", "--format", "csv"])
+    assert rc == 1  # none passes
+    lines = capsys.readouterr().out.strip().splitlines()
+    assert lines[0].startswith("pin,alternative") and len(lines) == 2
+
+
+def test_cli_size_and_rate(tmp_path, capsys):
+    assert main(["size", SPREADER, "--pin", "P_A"]) == 0
+    text = capsys.readouterr().out
+    assert "P_A" in text and "exact d" in text and "caution" in text
+    out = tmp_path / "rate.csv"
+    assert main(["rate", GANTRY, "--load", "hook", "--format", "csv", "--output", str(out)]) == 0
+    assert out.read_text().startswith("scaled,factor")
+
+
+@pytest.mark.parametrize("argv,word", [
+    (["compare", GANTRY, "--grade", "9.9"], "--grade"),
+    (["compare", GANTRY, "--pin", "nope"], "--pin"),
+    (["compare", GANTRY, "--diameter", "abc"], "--diameter"),
+    (["compare", GANTRY, "--diameter", "-3 mm"], "--diameter"),
+    (["size", GANTRY, "--pin-series", "imperial"], "series"),
+    (["rate", GANTRY, "--case", "nope"], "--case"),
+    (["rate", GANTRY, "--load", "nope"], "--load"),
+])
+def test_cli_input_errors(argv, word, capsys):
+    assert main(argv) == 2
+    err = capsys.readouterr().err
+    assert word in err and "Traceback" not in err
+
+
+def test_cli_refuses_to_overwrite_the_job(tmp_path, capsys):
+    job = tmp_path / "j.toml"
+    job.write_text(open(GANTRY, encoding="utf-8").read())
+    before = job.read_text()
+    assert main(["rate", str(job), "--output", str(job)]) == 2
+    assert job.read_text() == before
