@@ -329,10 +329,10 @@ class PinSweep:
         return self.check_names[int(self.part_check_ix[i, j])]
 
     def strength(self, i: int) -> tuple[float, str]:
-        """(utilization, check) of the option's governing check other than a detailing length rule."""
+        """(utilization, check) of the option's governing strength check (not a length or detailing rule)."""
         best, name = -np.inf, ""
         for c, arr in self.check_util.items():
-            if self.kinds.get(c) != "length" and arr[i] > best:
+            if self.kinds.get(c) not in ("length", "detail") and arr[i] > best:
                 best, name = float(arr[i]), c
         return best, name
 
@@ -546,8 +546,8 @@ def _utils(checks, n, kinds=None):
     """(names, util matrix (n_check, n)) with -inf where a check does not apply."""
     names, rows = [], []
     for ch in checks:
-        if kinds is not None:
-            kinds[ch.name] = ch.kind
+        if kinds is not None:  # a rule no force enters (a pin secured, a clearance) is a "detail"
+            kinds[ch.name] = ch.kind if getattr(ch, "uses_forces", True) else "detail"
     for ch in checks:
         mask = np.ones(n, bool) if ch.mask is None else np.asarray(ch.mask, bool)
         mask = mask & ~np.isposinf(ch.capacity)
@@ -859,6 +859,7 @@ class Sized:
     t_exact: dict[str, float]  # member -> thickness at which its plates' largest utilization reaches 1
     t_exact_check: dict[str, str]
     note: str = ""
+    strength: tuple[float, str] = (math.nan, "")  # the governing check other than a detailing length rule
 
 
 @dataclass(frozen=True)
@@ -910,7 +911,9 @@ def size(job: Job, pins: list[str] | None = None, pin_series: str | None = None,
              "exact limits: the largest utilization as a continuous function of the size (materials at that size, "
              "edge distances not rounded), solved for 1 with scipy.optimize.brentq; the chosen size is rounded up "
              "to the series and checked itself",
-             "every plate of a member at the pin takes one thickness; a hole keeps its clearance over the pin"]
+             "every plate of a member at the pin takes one thickness; a hole keeps its clearance over the pin",
+             "the thinnest plate that passes may need a wide lug (an edge-distance rule such as EN 1993-1-8 Table 3.9 "
+             "type A grows as 1/t): hold the plates with --only pin, or weigh thicknesses with compare --thickness"]
     return Sizing(job, method, dser, tser, tuple(what), out, tuple(notes))
 
 
@@ -993,7 +996,8 @@ def _size_one(base: Base, name: str, D, T, step) -> Sized:
             except ValueError:
                 pass
     return Sized(name, opt, float(sw2.util[chosen]), (sw2.check[chosen], sw2.part[chosen], sw2.case[chosen]),
-                 sw2.geometry(chosen), smaller, s_util, s_gov, s_note, d_exact, d_check, t_exact, t_check)
+                 sw2.geometry(chosen), smaller, s_util, s_gov, s_note, d_exact, d_check, t_exact, t_check,
+                 strength=sw2.strength(chosen))
 
 
 def diameter_limit(base: Base, name: str, option: Option, check: str | None = None, lo: float | None = None,
@@ -1122,7 +1126,11 @@ def rate(job: Job, case: str | None = None, label: str | None = None, factor_max
         try:
             res = run(_scaled_job(job, lam, case, label))
         except StructureError as exc:
-            out = (math.inf, None, str(exc.problems[0].message if hasattr(exc, "problems") else exc))
+            if lam == 1.0:
+                raise  # the job as it stands does not solve: its own input error
+            # beyond this factor the frame cannot carry the load as modelled (a cable in compression): a
+            # finite "fails" value, so the root finder closes on the factor where that begins
+            out = (2.0, None, str(exc.problems[0].message if getattr(exc, "problems", None) else exc))
         else:
             g = res.governing
             out = (float(res.columns["utilization"][g]) if g is not None else 0.0, res, "")
@@ -1133,9 +1141,9 @@ def rate(job: Job, case: str | None = None, label: str | None = None, factor_max
     what = ("every load" if case is None and label is None else
             (f"load case '{case}'" if label is None else
              (f"loads labelled '{label}'" + (f" in case '{case}'" if case else ""))))
-    u0, res0, _ = trial(0.0)
+    u0, res0, why0 = trial(0.0)
     reasons = []
-    if u0 > 1.0:
+    if u0 > 1.0 and not why0:
         g = res0.row(res0.governing) if res0 is not None else {}
         return Rating(job, what, 0.0, "at zero", g, u1, 1 / u1 if u1 > 0 else math.inf, (), (
             "a check fails with the chosen loads at zero: the design does not pass whatever the load",), count[0])
@@ -1159,12 +1167,17 @@ def rate(job: Job, case: str | None = None, label: str | None = None, factor_max
     lam = brentq(lambda x: trial(x)[0] - 1.0, lo, hi, xtol=1e-9, rtol=1e-9)
     u_below, res_b, _ = trial(lam * (1 - 1e-7))
     u_above, _, why_above = trial(lam * (1 + 1e-7))
+    if res_b is None:  # the bracket closed from a factor the frame cannot carry
+        u_below, res_b, _ = trial(lo)
     limit = "cable" if why_above else "check"
     gov = res_b.row(res_b.governing) if res_b is not None and res_b.governing is not None else {}
     if limit == "cable":
         reasons.append(f"beyond this factor the frame cannot carry the load as modelled: {why_above}")
+    if why0:
+        reasons.append(f"at factor 0 the frame cannot carry the other loads as modelled ({why0}); the factor "
+                       "reported is the upper limit")
     lin = 1 / u1 if u1 > 0 and math.isfinite(u1) else math.inf
-    if gov:
+    if gov and limit == "check":
         kind = gov.get("kind")
         chk = str(gov.get("check", ""))
         if kind == "ratio" or "+" in chk:
@@ -1178,7 +1191,7 @@ def rate(job: Job, case: str | None = None, label: str | None = None, factor_max
     if case is not None or label is not None:
         reasons.append("only some loads are scaled: the forces they add combine with the others, so a check's "
                        "utilization is not proportional to the factor")
-    if getattr(job, "combinations", None):
+    if getattr(job, "combinations", None) and (case is not None or label is not None):
         reasons.append("the job combines cases with factors: the scaled loads enter the combinations with their "
                        "factors")
     if abs(lam - lin) <= 1e-6 * max(lam, 1.0):

@@ -251,6 +251,87 @@ def test_rate_interaction_is_solved_not_divided(gantry):
     assert any("nonlinearly" in r for r in rt.reasons)
 
 
+CABLE_JOB = """\
+# invented test frame: a boom held by a cable, a dead load and an uplift
+[job]
+title = "boom on a cable (test, invented)"
+output_units = "SI"
+[units]
+length = "mm"
+force = "kN"
+[method]
+name = "EN 1993-1-8"
+[body.boom]
+points = { R = [0, 0], T = [2000, 0] }
+[pin.P_root]
+joins = ["boom.R"]
+[pin.P_wall]
+at = [0, 1500]
+[pin.P_tip]
+joins = ["boom.T"]
+diameter = 30
+hole = 32
+material = "42CrMo4+QT"
+[[pin.P_tip.plate]]
+member = "stay"
+thickness = 12
+material = "S355"
+width = 100
+end = 60
+[[pin.P_tip.plate]]
+member = "boom"
+thickness = 20
+material = "S355"
+width = 100
+end = 60
+gap = 1
+[[pin.P_tip.plate]]
+member = "stay"
+thickness = 12
+material = "S355"
+width = 100
+end = 60
+gap = 1
+[link.stay]
+ends = ["P_wall", "P_tip"]
+kind = "cable"
+[support.root]
+at = "P_root"
+kind = "pinned"
+[support.wall]
+at = "P_wall"
+kind = "pinned"
+[case.both]
+[[load]]
+case = "both"
+at = "P_tip"
+body = "boom"
+force = ["0 kN", "-10 kN"]
+[[load]]
+case = "both"
+at = "P_tip"
+body = "boom"
+force = ["0 kN", "4 kN"]
+label = "uplift"
+"""
+
+
+def test_rate_stops_where_a_cable_goes_slack(tmp_path):
+    """An invented boom held by a cable, a 10 kN dead load down and a labelled 4 kN uplift at the tip (one
+    case). The cable's tension is linear in the uplift factor and vanishes at 10/4 = 2.5 (statics by hand:
+    the vertical load at the tip is what the cable holds); beyond it the cable would push, so the limit is
+    2.5 although every check still passes there, not 1/utilization."""
+    path = tmp_path / "cable.toml"
+    path.write_text(CABLE_JOB, encoding="utf-8")
+    job = load_job(str(path))
+    rt = alt.rate(job, label="uplift")
+    assert rt.limit == "cable"
+    assert rt.factor == pytest.approx(10 / 4, rel=1e-7)
+    assert rt.governing["utilization"] < 1.0
+    assert abs(rt.factor - rt.linear_estimate) > 0.1
+    assert any("cable stay" in r for r in rt.reasons)
+
+
 # ------------------------------------------------------------------------------------------------ CLI
 
 

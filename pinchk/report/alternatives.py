@@ -63,6 +63,8 @@ def compare_rows(cmp) -> list[dict]:
                 "method": o.method or cmp.method,
                 "governing_check": sw.check[i] if ok else "", "part": sw.part[i] if ok else "",
                 "case": sw.case[i] if ok else "", "utilization": util,
+                "strength_check": sw.strength(i)[1] if ok else "",
+                "strength_utilization": sw.strength(i)[0] if ok else None,
                 "status": "n/a" if not ok else ("pass" if util <= 1.0 else "FAIL"),
                 "marked": cmp.marked.get(n) == i, "note": sw.reason[i]})
     return out
@@ -73,12 +75,14 @@ def compare_table(cmp) -> str:
     for n, sw in cmp.sweeps.items():
         rows = []
         for r in (x for x in compare_rows(cmp) if x["pin"] == n):
+            strength = ("" if r["strength_utilization"] is None or r["strength_check"] == r["governing_check"]
+                        else f"{r['strength_utilization']:.3f} {r['strength_check']}")
             rows.append((r["alternative"], r["governing_check"] or r["note"], r["part"], r["case"],
-                         "-" if r["utilization"] is None else f"{r['utilization']:.3f}", r["status"],
+                         "-" if r["utilization"] is None else f"{r['utilization']:.3f}", r["status"], strength,
                          MARK if r["marked"] else ""))
         out.append(f"pin {n}")
         out.append(tabulate(rows, headers=["alternative", "governing check", "part", "case", "utilization", "status",
-                                           ""], disable_numparse=True))
+                                           "strength check (if not governing)", ""], disable_numparse=True))
         m = cmp.marked.get(n)
         if m is not None:
             out.append(f"lightest passing: {sw.options[m].label} (utilization {sw.util[m]:.3f})")
@@ -128,7 +132,8 @@ def size_rows(sz) -> tuple[list[dict], list[dict]]:
             "next_smaller_utilization": _num(s.smaller_util), "next_smaller_check": s.smaller_governing[0],
             "next_smaller_part": s.smaller_governing[1], "next_smaller_case": s.smaller_governing[2],
             "next_smaller_note": s.smaller_note,
-            "exact_diameter": _len(s.d_exact, lu), "exact_diameter_check": s.d_exact_check, "note": s.note})
+            "exact_diameter": _len(s.d_exact, lu), "exact_diameter_check": s.d_exact_check,
+            "strength_utilization": _num(s.strength[0]), "strength_check": s.strength[1], "note": s.note})
         for part, (t, e, w) in s.geometry.items():
             m = next(p for p in pin.stack if part == p.member or part.startswith(p.member + " "))
             plates.append({"pin": n, "part": part, "thickness": _len(t, lu), "thickness_as_job": _len(m.thickness, lu),
@@ -148,16 +153,18 @@ def size_table(sz) -> str:
     rows = []
     for r in pins:
         if not r["found"]:
-            rows.append((r["pin"], "-", "-", r["note"], "", "", "", ""))
+            rows.append((r["pin"], "-", "-", r["note"], "", "", "", "", ""))
             continue
         nxt = ("-" if r["next_smaller_diameter"] is None else
                f"{fmt(r['next_smaller_diameter'])}: {r['next_smaller_utilization']:.3f} {r['next_smaller_check']}"
                + (f" ({r['next_smaller_note']})" if r["next_smaller_note"] else ""))
         rows.append((r["pin"], f"{fmt(r['diameter_as_job'])} -> {fmt(r['diameter'])}", f"{r['utilization']:.3f}",
-                     r["governing_check"], f"{r['part']}, {r['case']}", nxt,
+                     r["governing_check"], f"{r['part']}, {r['case']}",
+                     f"{r['strength_utilization']:.3f} {r['strength_check']}", nxt,
                      "-" if r["exact_diameter"] is None else fmt(r["exact_diameter"]), r["exact_diameter_check"]))
     out.append(tabulate(rows, headers=["pin", f"d [{ul}]", "utilization", "governing check", "where",
-                                       f"next smaller d [{ul}]: utilization, check", f"exact d [{ul}]", "limited by"],
+                                       "strength check", f"next smaller d [{ul}]: utilization, check",
+                                       f"exact d [{ul}]", "limited by"],
                         disable_numparse=True))
     out.append("")
     prow = [(r["pin"], r["part"], f"{fmt(r['thickness_as_job'])} -> {fmt(r['thickness'])}", fmt(r["end"]),
@@ -229,8 +236,12 @@ def rate_table(rt) -> str:
         g = d["governing"]
         out.append(f"largest factor: {rt.factor:.4f}  (the design as the job stands has utilization "
                    f"{rt.util_at_1:.3f}; a plain division would give {rt.linear_estimate:.4f})")
-        out.append(f"limited by: {g.get('pin')} {g.get('part')}, {g.get('check')}, case '{g.get('case')}'"
-                   + (", a cable going slack just beyond" if rt.limit == "cable" else ""))
+        where = f"{g.get('pin')} {g.get('part')}, {g.get('check')}, case '{g.get('case')}'"
+        if rt.limit == "cable":
+            out.append("limited by: a cable going slack just beyond this factor (see the note); the largest "
+                       f"utilization just below it is {float(g.get('utilization', math.nan)):.3f}, {where}")
+        else:
+            out.append(f"limited by: {where}")
         if rt.loads:
             rows = [(c, lb or "-", fmt(from_si(f, "force", fu))) for c, lb, f in rt.loads]
             out.append("")
