@@ -393,6 +393,8 @@ def _build(base: Base, name: str, options: list[Option], method: str, fac: dict)
         d = pin.diameter if o.diameter is None else o.diameter
         d_opt[i] = d
         mat, grade, why = _pin_material(pin, o, d)
+        if not why and getattr(pin, "bolt", None) is not None and d != pin.diameter:
+            why = _thread_reason(pin, d)
         if not why:
             fup[i], fyp[i] = mat.fu, mat.fy
         else:
@@ -521,6 +523,17 @@ def _stack_index(pin, label: str) -> int | None:
         return ix[int(tail) - 1]
     except (ValueError, IndexError):
         return ix[0] if ix else None
+
+
+def _thread_reason(pin, d: float) -> str:
+    """"" if the bolt's thread system lists a coarse thread of diameter ``d``, else why not."""
+    try:
+        from . import bolts
+    except ImportError:
+        return "bolt threads are not available in this version"
+    if bolts.coarse_thread(pin.bolt.grade.thread, d) is None:
+        return f"no {pin.bolt.grade.thread} coarse thread of {d * 1e3:g} mm in data/thread_sizes.csv"
+    return ""
 
 
 def _stress_area(pin, As, d_old, d_new):
@@ -789,10 +802,9 @@ def options_from(job: Job, name: str, diameters=None, pin_materials=None, grades
                                    method=me)
                         dd = pin.diameter if d is None else d
                         _, _, why = _pin_material(pin, o, dd)
-                        if why and (pin_materials == "all" or grades == "all" or mm is not None):
-                            skipped.append(f"{o.label}: {why}")
-                            if (mm is not None) and (_is_all(pin_materials) or _is_all(grades)):
-                                continue
+                        if why and mm is not None and (_is_all(pin_materials) or _is_all(grades)):
+                            skipped.append(f"{o.label}: {why}")  # "all": only those that fit the size
+                            continue
                         out.append(o)
     return out, skipped
 
