@@ -279,6 +279,9 @@ def _detail_aisc(F, t, d, d0, fy, fac, type_b):
 
 #: method name -> rule giving (end, width, keep) per row; methods without one scale the job's outline
 DETAILING = {"EN 1993-1-8": _detail_en, "AISC 360-16": _detail_aisc}
+#: the checks a rule's end and width meet by construction (left out where a limit is solved for)
+DERIVED = {"EN 1993-1-8": ("end distance (type A)", "edge distance (type A)"),
+           "AISC 360-16": ("end distance", "width")}
 DETAILING_TEXT = {
     "EN 1993-1-8": "end and width from EN 1993-1-8 Table 3.9 type A (a = F γM0/(2 t fy) + 2 d0/3, "
                    "c = F γM0/(2 t fy) + d0/3, the largest force of any case); type B plates keep their outline "
@@ -311,6 +314,17 @@ class PinSweep:
     geo: Array | None = None  # (n_option, n_plate_parts, 3): t, end, width [m]
     strengths: Array | None = None  # (n_option, 2): pin fu, lowest plate fu [Pa]
     kinds: dict[str, str] = field(default_factory=dict)  # check -> kind ("force", "length", ...)
+    check_part_util: dict[str, Array] = field(default_factory=dict)  # check -> (n_option, n_parts)
+
+    def util_without(self, exclude=(), parts=None) -> Array:
+        """Largest utilization of each option over the checks not in ``exclude`` and the part columns
+        ``parts`` (default all; 0 is the pin); inf where the option is not available."""
+        cols = slice(None) if parts is None else list(parts)
+        u = np.full(len(self.options), -np.inf)
+        for c, arr in self.check_part_util.items():
+            if c not in exclude:
+                u = np.maximum(u, arr[:, cols].max(axis=1))
+        return np.where(self.valid, u, np.inf)
 
     @property
     def valid(self) -> npt.NDArray[np.bool_]:
@@ -389,6 +403,7 @@ def _build(base: Base, name: str, options: list[Option], method: str, fac: dict)
     m_ratio = np.ones((na, nc))
     f_ratio = np.ones((na, nq, nc))
     stack_cache = base.cache
+    part_stack = [_stack_index(pin, lab) for lab in base.parts[name]]
     for i, o in enumerate(options):
         d = pin.diameter if o.diameter is None else o.diameter
         d_opt[i] = d
@@ -408,8 +423,7 @@ def _build(base: Base, name: str, options: list[Option], method: str, fac: dict)
             r = _stack_ratios(base, name, thick, stack_cache)
             if r is not None:
                 v_ratio[i], m_ratio[i] = r[0], r[1]
-                for j, lab in enumerate(base.parts[name]):
-                    k = _stack_index(pin, lab)
+                for j, k in enumerate(part_stack):
                     if k is not None:
                         f_ratio[i, j] = r[2][:, k]
         reasons.append(why)
@@ -589,7 +603,7 @@ def evaluate(base: Base, requests: dict[str, list[Option]]) -> dict[str, PinSwee
                      "part": np.full(na, "", dtype=object), "case": np.full(na, "", dtype=object),
                      "part_util": np.full((na, 1 + nq), np.nan), "part_check": np.zeros((na, 1 + nq), np.intp),
                      "reason": [""] * na, "geo": np.zeros((na, nq, 3)), "strengths": np.zeros((na, 2)),
-                     "check_util": {}}
+                     "check_util": {}, "cpu": {}}
     nc = base.nc
     kinds: dict[str, str] = {}
     names_all: list[str] = []
@@ -662,9 +676,12 @@ def evaluate(base: Base, requests: dict[str, list[Option]]) -> dict[str, PinSwee
             for c, cname in enumerate(allc):
                 arr = a["check_util"].setdefault(cname, np.full(len(requests[name]), -np.inf))
                 arr[ix] = np.maximum(arr[ix], cu[c])
+                arr2 = a["cpu"].setdefault(cname, np.full((len(requests[name]), 1 + nq), -np.inf))
+                arr2[ix] = np.maximum(arr2[ix], cp[c])
     return {name: PinSweep(name, tuple(requests[name]), tuple(a["reason"]), a["util"], tuple(a["check"]),
                            tuple(a["part"]), tuple(a["case"]), ("pin",) + base.parts[name], a["part_util"],
-                           a["check_util"], tuple(names_all), a["part_check"], a["geo"], a["strengths"], dict(kinds))
+                           a["check_util"], tuple(names_all), a["part_check"], a["geo"], a["strengths"], dict(kinds),
+                           a["cpu"])
             for name, a in acc.items()}
 
 
@@ -992,16 +1009,18 @@ def _size_one(base: Base, name: str, D, T, step) -> Sized:
     if T is not None:
         th0 = dict(opt.thickness)
         for m in mem:
-            def u_t(t, m=m):
-                o = replace(opt, thickness=tuple((k, (t if k == m else v)) for k, v in th0.items()), round_to=None)
-                s = evaluate(base, {name: [o]})[name]
-                return float(_plate_ok(s, base, name, m)[0]), s
+            def u_t(ts, m=m):
+                o = [replace(opt, thickness=tuple((k, (float(t) if k == m else v)) for k, v in th0.items()),
+                             round_to=None) for t in ts]
+                s = evaluate(base, {name: o})[name]
+                cols = [1 + j for j, mm in enumerate(base.part_member[name]) if mm == m]
+                return s.util_without(DERIVED.get(base.job.method.name, ()), cols), s
             hi = th0[m]
             lo = hi / 4
             try:
-                if u_t(lo)[0] > 1.0 >= u_t(hi)[0]:
-                    t_exact[m] = brentq(lambda x: u_t(x)[0] - 1.0, lo, hi, xtol=1e-11, rtol=1e-12)
-                    s = u_t(t_exact[m] * (1 - 1e-5))[1]
+                if u_t([lo])[0][0] > 1.0 >= u_t([hi])[0][0]:
+                    t_exact[m] = _crossing(lambda x, u_t=u_t: np.minimum(u_t(x)[0], 3.0) - 1.0, lo, hi)
+                    s = u_t([t_exact[m] * (1 - 1e-5)])[1]
                     cols = [1 + j for j, mm in enumerate(base.part_member[name]) if mm == m]
                     j = max(cols, key=lambda c: s.part_util[0, c])
                     t_check[m] = s.part_check(0, j)
@@ -1010,6 +1029,23 @@ def _size_one(base: Base, name: str, D, T, step) -> Sized:
     return Sized(name, opt, float(sw2.util[chosen]), (sw2.check[chosen], sw2.part[chosen], sw2.case[chosen]),
                  sw2.geometry(chosen), smaller, s_util, s_gov, s_note, d_exact, d_check, t_exact, t_check,
                  strength=sw2.strength(chosen))
+
+
+def _crossing(g_vec, lo: float, hi: float, n: int = 16, rounds: int = 1) -> float:
+    """The x in [lo, hi] where g (g(lo) > 0 fails, g(hi) ≤ 0 passes) last changes sign from fail to pass.
+
+    g_vec evaluates many x in one call (one kernel pass); the bracket is narrowed on grids first, then
+    closed with scipy.optimize.brentq on the scalar function.
+    """
+    for _ in range(rounds):
+        x = np.linspace(lo, hi, n)
+        g = np.asarray(g_vec(x), float)
+        fail = np.flatnonzero(g > 0)
+        k = int(fail[-1]) if len(fail) else 0
+        if k >= n - 1:
+            break
+        lo, hi = float(x[k]), float(x[k + 1])
+    return float(brentq(lambda v: float(g_vec(np.array([v]))[0]), lo, hi, xtol=1e-10 * hi, rtol=1e-10))
 
 
 def diameter_limit(base: Base, name: str, option: Option, check: str | None = None, lo: float | None = None,
@@ -1022,16 +1058,21 @@ def diameter_limit(base: Base, name: str, option: Option, check: str | None = No
     """
     d0 = base.job.pins[name].diameter if option.diameter is None else option.diameter
 
-    def u(d):
-        sw = evaluate(base, {name: [replace(option, diameter=float(d), round_to=None)]})[name]
-        if sw.reason[0]:
-            return math.inf
+    skip = DERIVED.get(option.method or base.job.method.name, ()) if option.detail else ()
+
+    def u_vec(ds):
+        sw = evaluate(base, {name: [replace(option, diameter=float(d), round_to=None) for d in ds]})[name]
         if check is None:
-            return float(sw.util[0])
-        if check not in sw.check_util:
+            u = sw.util_without(skip)
+        elif check not in sw.check_util:
             raise InputError(Problem(base.job.path, f"pin.{name}", "check", f"no check {check!r}; the checks are: "
                                      + ", ".join(sw.check_util)))
-        return float(sw.check_util[check][0])
+        else:
+            u = np.array(sw.check_util[check], float)
+        return np.where(sw.valid, u, np.inf)
+
+    def u(d):
+        return float(u_vec([d])[0])
 
     hi = hi or d0
     k = 0
@@ -1047,7 +1088,7 @@ def diameter_limit(base: Base, name: str, option: Option, check: str | None = No
         k += 1
         if k > 12:
             return None
-    return float(brentq(lambda x: u(x) - 1.0, lo, hi, xtol=1e-11, rtol=1e-12))
+    return _crossing(lambda x: np.minimum(u_vec(x), 3.0) - 1.0, lo, hi)
 
 
 def _what_of(D, job, name):
