@@ -7,12 +7,14 @@ from dataclasses import dataclass, field
 import numpy as np
 import numpy.typing as npt
 
-from . import bolts
+from . import bolts, joint
 from .combine import row_factors
 from .frame import FrameSolution
-from .methods import METHODS, Check, factors_for
+from .methods import METHODS, Check, factors_for, make_check
+from .methods.lug_base import BASE_CHECKS
 from .model import Job
 from .stack import StackResult, solve_stack
+from .sweep import lug_sweeps
 
 COLUMNS = ("pin", "part", "check", "case", "demand", "capacity", "kind", "utilization", "status", "clause",
            "formula", "factors", "note")
@@ -38,6 +40,12 @@ class Results:
     unchecked: tuple[str, ...] = field(default_factory=tuple)
     warnings: tuple[str, ...] = field(default_factory=tuple)
     case_solution: FrameSolution | None = None  # the forces per load case, where combinations were checked
+    #: (pin, part) -> geometry along the force of each case: angle [rad], a, c_pos, c_neg [m] (n_case,)
+    geometry: dict[tuple[str, str], dict[str, npt.NDArray[np.float64]]] = field(default_factory=dict)
+    #: pin -> axial force its retainer takes in each case [N] (lugs with a lateral load), (n_case,)
+    pin_axial: dict[str, npt.NDArray[np.float64]] = field(default_factory=dict)
+    #: load-angle sweep of every lug plate (pinchk.sweep.LugSweep)
+    sweeps: tuple = field(default_factory=tuple)
 
     def __len__(self) -> int:
         return len(self.columns["check"])
@@ -68,14 +76,6 @@ class Results:
         return pd.DataFrame({k: list(v) if isinstance(v, tuple) else v for k, v in self.columns.items()})
 
 
-def _part_names(pin) -> list[str]:
-    names = []
-    for i, p in enumerate(pin.stack):
-        same = [j for j, q in enumerate(pin.stack) if q.member == p.member]
-        names.append(p.member if len(same) == 1 else f"{p.member} {same.index(i) + 1}/{len(same)}")
-    return names
-
-
 def run_checks(job: Job, sol: FrameSolution, module=None) -> Results:
     """Check every pin of ``job`` that has a stack, for every load case of ``sol``.
 
@@ -94,11 +94,20 @@ def run_checks(job: Job, sol: FrameSolution, module=None) -> Results:
     stacks: dict[str, StackResult] = {}
     P = {k: [] for k in ("d", "fup", "fyp", "V", "M", "uls", "ser", "bolt", "grade", "As", "V_shank", "V_thread",
                          "secured", "rot", "stack_text", "shank_planes", "thread_planes")}
-    Q = {k: [] for k in ("F", "t", "d", "d0", "fy", "fu", "fyp", "fup", "E", "a_end", "width", "type_b", "rot",
-                         "uls", "ser", "stiffened", "stack_text")}
+    Q: dict[str, list] = {}  # plate parts (the columns of joint.columns, with the factor-stack text)
+    B: dict[str, list] = {}  # bushings: only the checks that do not depend on an outline
+    L: dict[str, list] = {}  # lug bases under a lateral load
     warnings: list[str] = []
     pin_lab: list[str] = []
     plate_lab: list[tuple[str, str]] = []
+    bush_lab: list[tuple[str, str]] = []
+    base_lab: list[tuple[str, str]] = []
+    plate_note: list[str] = []
+    geometry: dict[tuple[str, str], dict] = {}
+    pin_axial: dict[str, np.ndarray] = {}
+    group_notes: list[str] = []
+    no_base: list[str] = []
+    fz_parts: list[str] = []  # lugs whose lateral load is the forces file's fz
     for name, pin in job.pins.items():
         if not pin.checked:
             continue
@@ -129,33 +138,60 @@ def run_checks(job: Job, sol: FrameSolution, module=None) -> Results:
         P["stack_text"].append(np.array(txt, dtype=object))
         pin_lab.append(name)
         warnings += bolts.warnings_for(pin)
-        for k, (plate, part) in enumerate(zip(pin.stack, _part_names(pin))):
-            if not plate.checked:
-                continue
-            m = plate.material
-            sfac, txt = row_factors(job, cases, name, {plate.member})
-            Q["F"].append(np.linalg.norm(st.plate_force[:, k, :], axis=-1) * sfac)
-            Q["stack_text"].append(np.array(txt, dtype=object))
-            Q["stiffened"].append(np.full(nc, plate.stiffened))
-            for key, val in (("t", plate.thickness), ("d", pin.diameter), ("d0", plate.hole), ("fy", m.fy),
-                             ("fu", m.fu), ("fyp", pin.material.fy), ("fup", pin.material.fu), ("E", m.E),
-                             ("a_end", plate.end), ("width", plate.width)):
-                Q[key].append(np.full(nc, val))
-            Q["type_b"].append(np.full(nc, plate.en_type == "B"))
-            Q["rot"].append(np.full(nc, pin.rotates))
-            Q["uls"].append(uls_case)
-            Q["ser"].append(ser)
-            plate_lab.append((name, part))
+        axial = np.zeros(nc)
+        for part in joint.parts_of(pin):
+            # the factor stack (dynamic, skew, consequence) scales the forces of the part's member
+            sfac_p, txt_p = row_factors(job, cases, name, {pin.stack[part.plates[0]].member})
+            f_part = part.force(st) * sfac_p[:, None]
+            cols_ = joint.columns(pin, part, f_part, uls_case, ser)
+            cols_["stack_text"] = np.array(txt_p, dtype=object)
+            into, labels = (Q, plate_lab) if part.kind == "plate" else (B, bush_lab)
+            for key, v in cols_.items():
+                into.setdefault(key, []).append(v)
+            labels.append((name, part.label))
+            if part.kind == "plate":
+                plate_note += joint.off_axis_note(pin, part, cols_["angle"])
+                geometry[(name, part.label)] = {k: cols_[k] for k in ("angle", "a", "c_pos", "c_neg")}
+                if note := joint.share_note(pin, st, part):
+                    group_notes.append(note)
+            fz = None
+            pf = sol.pins[name]
+            if pf.axial is not None:  # forces along the pin, from a forces file
+                member = pin.stack[part.plates[0]].member
+                fz = pf.axial[:, pf.members.index(member)] * sum(st.share[i] for i in part.plates) * sfac_p
+            lat = joint.lateral_columns(pin, part, f_part, cases, job.combinations, fz)
+            if lat is not None:
+                if all(pin.stack[i].lateral is None for i in part.plates):
+                    fz_parts.append(f"{name} {part.label}")
+                lat["stack_text"] = cols_["stack_text"]
+                axial += lat["H"]
+                if job.method.name in BASE_CHECKS:
+                    for key, v in lat.items():
+                        L.setdefault(key, []).append(v)
+                    base_lab.append((name, part.label))
+                else:
+                    no_base.append(f"{name} {part.label}")
+        if axial.any() or pin.retainer is not None:
+            pin_axial[name] = axial
 
     cols: dict[str, list] = {k: [] for k in COLUMNS}
 
-    def emit(checks: list[Check], labels: list[tuple[str, str]], stack_text) -> None:
+    dropped = [0]
+
+    def emit(checks: list[Check], labels: list[tuple[str, str]], stack_text, notes: list[str] | None = None,
+             keep=None) -> None:
         n = len(labels)
         pins_ = np.repeat([p for p, _ in labels], nc) if n else np.array([], dtype=str)
         parts = np.repeat([q for _, q in labels], nc) if n else np.array([], dtype=str)
         case_col = np.tile(np.array(cases, dtype=object), n)
         for ch in checks:
+            if keep is not None and not keep(ch.name):
+                continue
             mask = np.ones(n * nc, bool) if ch.mask is None else np.asarray(ch.mask, bool)
+            # a capacity without bound: the force runs into the body of the plate (no free edge ahead)
+            unbounded = mask & np.isposinf(ch.capacity)
+            dropped[0] += int(unbounded.sum())
+            mask = mask & ~unbounded
             if not mask.any():
                 continue
             dem, cap = ch.demand[mask], ch.capacity[mask]
@@ -175,14 +211,31 @@ def run_checks(job: Job, sol: FrameSolution, module=None) -> Results:
             cols["formula"] += [ch.formula] * k
             stack = stack_text[mask] if ch.uses_forces else [""] * k
             cols["factors"] += [ch.factors + ("; " if ch.factors and s else "") + s for s in stack]
-            cols["note"] += [ch.note] * k
+            if notes is None or any(w in ch.name for w in joint.OUTLINE_FREE):
+                cols["note"] += [ch.note] * k
+            else:
+                cols["note"] += ["; ".join(x for x in (ch.note, notes[i]) if x) for i in np.flatnonzero(mask)]
 
     if pin_lab:
         Pa = {k: np.concatenate(v) for k, v in P.items()}
         emit(mod.pin_checks(Pa, fac, variant), [(p, "pin") for p in pin_lab], Pa["stack_text"])
     if plate_lab:
         Qa = {k: np.concatenate(v) for k, v in Q.items()}
-        emit(mod.plate_checks(Qa, fac, variant), plate_lab, Qa["stack_text"])
+        emit(mod.plate_checks(Qa, fac, variant), plate_lab, Qa["stack_text"], plate_note)
+    if bush_lab:
+        Ba = {k: np.concatenate(v) for k, v in B.items()}
+        emit(mod.plate_checks(Ba, fac, variant), bush_lab, Ba["stack_text"],
+             keep=lambda c: any(w in c for w in joint.OUTLINE_FREE))
+    if base_lab:
+        La = {k: np.concatenate(v) for k, v in L.items()}
+        emit(BASE_CHECKS[job.method.name](La, fac, variant), base_lab, La["stack_text"])
+    ret = [(n, job.pins[n].retainer) for n in pin_axial if job.pins[n].retainer is not None]
+    if ret:
+        emit([make_check("pin axial force (retainer)", "retainer capacity as given in the job: "
+                         "axial force ≤ retainer capacity", "force",
+                         np.concatenate([pin_axial[n] for n, _ in ret]), np.repeat([r for _, r in ret], nc), "",
+                         None, "every lateral load on the pin's lugs taken through the pin to its retainer")],
+             [(n, "pin retainer") for n, _ in ret], np.full(len(ret) * nc, "", dtype=object))
 
     columns: dict[str, object] = {}
     for k in COLUMNS:
@@ -193,15 +246,19 @@ def run_checks(job: Job, sol: FrameSolution, module=None) -> Results:
 
     notes = [f"{n}: {st.share_note}" for n, st in stacks.items()
              if len({p.member for p in job.pins[n].stack}) < len(job.pins[n].stack)]
-    notes.append("each plate is checked with the geometry along its lug axis, taken as the direction of "
-                 "its force (width across it, end distance along it)")
-    notes.append("pin moment from uniform bearing over each plate's thickness (EN 1993-1-8 Fig. 3.11 model); "
-                 "an unsymmetric stack's net couple is held by equal end couples at its outer faces")
+    notes += group_notes
+    notes += joint.notes(job, stacks, dropped[0], bool(bush_lab), bool(base_lab))
+    if no_base:
+        warnings.append(joint.no_base_warning(job.method.name, no_base))
+    if fz_parts:
+        notes.append(f"the forces file's forces along the pin (fz) are the lateral loads of {', '.join(fz_parts)}, "
+                     "by their share of the member's force: their base sections and the pin's retainer are checked "
+                     "for them")
     if any(job.pins[n].replaceable for n in stacks) and not has_sls:
         notes.append("replaceable pins: no SLS case is given, so the serviceability checks use the ultimate "
                      "case forces (conservative)")
     unchecked = tuple(n for n, p in job.pins.items() if not p.checked)
     notes += [f"{n}: {pin.bolt.thread_note}" for n, pin in job.pins.items() if pin.bolt and n in stacks]
+    sweeps = tuple(lug_sweeps(job, stacks, fac, variant, cases))
     return Results(job, sol, stacks, mod.NAME, mod.EDITION, variant, fac, columns, tuple(notes), unchecked,
-                   tuple(warnings))
-
+                   tuple(warnings), None, geometry, pin_axial, sweeps)

@@ -13,8 +13,8 @@ from typing import Any
 
 from . import materials, sections
 from .errors import Collector, InputError, Problem
-from .model import (GROUND, PIN_LOAD, Body, Case, Job, Link, Load, Material, MethodChoice, Pin, Place,
-                    Plate, Support)
+from .model import (GROUND, PIN_LOAD, Body, Bushing, Case, Job, Lateral, Link, Load, Material, MethodChoice,
+                    Pin, Place, Plate, Support)
 from .units import G0, UNIT_SYSTEMS, QuantityError, check_unit, to_si
 
 MAX_FILE_BYTES = 4 * 1024 * 1024  # a job file is text typed by a person; anything larger is refused
@@ -30,9 +30,10 @@ KEYS = {
     "material": {"fy", "fu", "E", "source"},
     "body": {"points", "description", "section", "members"},
     "pin": {"joins", "at", "diameter", "hole", "material", "replaceable", "rotates", "plate", "description",
-            "secured", "bolt", "thread_pitch", "thread_planes", "thread_plates"},
+            "secured", "bolt", "thread_pitch", "thread_planes", "thread_plates", "pin_model", "wear", "retainer"},
     "plate": {"member", "thickness", "material", "width", "end", "shape", "gap", "hole", "share", "en_type",
-              "stiffened"},
+              "stiffened", "axis", "arc_centre", "radius", "outline", "base", "base_width", "group", "bushing_od",
+              "bushing_material", "lateral", "lateral_force"},
     "link": {"ends", "kind", "description", "EA"},
     "support": {"at", "kind", "normal", "description"},
     "case": {"description", "limit_state"},
@@ -212,7 +213,7 @@ def parse_job(data: dict[str, Any], path: str = "<job>", text: str = "") -> Job:
     links = sections.attach_to_links(r, data, _links(r, data, bodies, pins_partial)) if not frameless else {}
     supports = _supports(r, data, bodies, pins_partial, required=forces is None) if not frameless else {}
     loads = _loads(r, data, bodies, pins_partial, cases, required=forces is None) if not frameless else []
-    pins = _pins_stack(r, pin_tables, pins_partial, links, supports, loads, job_materials, frameless)
+    pins = _pins_stack(r, pin_tables, pins_partial, links, supports, loads, job_materials, frameless, cases)
     from . import jobfile_lifting
 
     combos = jobfile_lifting.combinations(r, data, cases)
@@ -574,7 +575,8 @@ def _material(r: _Reader, where: str, field: str, name, size: float, own: dict[s
         return None
 
 
-def _pins_stack(r: _Reader, pt: dict, frame: dict, links, supports, loads, own, frameless=False) -> dict[str, Pin]:
+def _pins_stack(r: _Reader, pt: dict, frame: dict, links, supports, loads, own, frameless=False,
+                cases=None) -> dict[str, Pin]:
     """Second pass over pins: size, material and the stack of plates, checked against the frame (without
     a frame, pinchk.forcesfile checks the plates' members against the forces file)."""
     at_pin: dict[str, set[str]] = {n: set(f["bodies"]) for n, f in frame.items()}
@@ -644,24 +646,35 @@ def _pins_stack(r: _Reader, pt: dict, frame: dict, links, supports, loads, own, 
             checked = member != PIN_LOAD
             pmat = width = end = None
             shape, en_type = "round", "A"
+            extra: dict = {}
             if checked and member is not None:
                 if "material" not in p:
                     r.bad(pw, "material", "missing: the plate's material")
                 elif th is not None:
                     pmat = _material(r, pw, "material", p["material"], th, own)
-                width = r.qty(pw, p, "width", "length", positive=True)
-                end = r.qty(pw, p, "end", "length", positive=True)
-                shape = r.text_field(pw, p, "shape", choices=["round", "square"], default="round")
+                shape = r.text_field(pw, p, "shape", choices=["round", "square", "polygon"], default="round")
+                offset = shape == "round" and ("arc_centre" in p or "radius" in p)
+                width = r.qty(pw, p, "width", "length", required=shape != "polygon", positive=True)
+                end = r.qty(pw, p, "end", "length", required=shape != "polygon" and not offset, positive=True)
                 en_type = r.text_field(pw, p, "en_type", choices=["A", "B"], default="A")
                 if ph is not None and width is not None and width <= ph:
                     r.bad(pw, "width", f"the plate ({p['width']}) is not wider than its hole; nothing is left beside it")
-                if ph is not None and end is not None and end <= ph / 2:
+                if ph is not None and end is not None and end <= ph / 2 and not offset:
                     r.bad(pw, "end", f"the end distance ({p['end']}) lies inside the hole; it is measured from "
                           "the hole centre and must exceed half the hole diameter")
-            if None in (member, th, ph) or (checked and None in (pmat, width, end)):
+                extra = _lug_fields(r, pw, p, shape, width, end, ph, th, own, cases or {})
+                if shape == "polygon":
+                    width = end = 0.0  # the outline gives the geometry
+                elif extra is not None and extra["outline"] is not None:
+                    end = extra["outline"].end
+            elif member is not None:
+                for k in KEYS["plate"] - {"member", "thickness", "gap", "hole", "share"}:
+                    if k in p:
+                        r.bad(pw, k, f"'{k}' is for a checked plate; the '{PIN_LOAD}' member is not checked")
+            if None in (member, th, ph) or (checked and None in (pmat, width, end)) or extra is None:
                 continue
             stack.append(Plate(member, th, gap, share, pmat, width, end, shape, ph, en_type,
-                               r.flag(pw, p, "stiffened")))
+                               r.flag(pw, p, "stiffened"), **extra))
         if plates_t and len(stack) == len(plates_t):
             members = [pl.member for pl in stack]
             for m in at_pin[name] if not frameless else ():
@@ -670,12 +683,169 @@ def _pins_stack(r: _Reader, pt: dict, frame: dict, links, supports, loads, own, 
                           "every member at a checked pin needs its plate")
             if len(stack) < 2:
                 r.bad(where, "plate", "a stack needs at least two plates")
+            for key in {(pl.member, pl.group) for pl in stack if pl.group is not None}:
+                ix = [i for i, pl in enumerate(stack) if (pl.member, pl.group) == key]
+                if ix != list(range(ix[0], ix[-1] + 1)):
+                    r.bad(where, "plate", f"the plates of member {key[0]}, group '{key[1]}' (plates "
+                          f"{', '.join(str(i + 1) for i in ix)}) are not next to each other in the stack; a main "
+                          "plate and its cheek plates sit side by side")
+                if sum(stack[i].lateral is not None for i in ix) > 1:
+                    r.bad(where, "plate", f"more than one plate of member {key[0]}, group '{key[1]}' has a lateral "
+                          "load; the group is checked as one part: give its lateral load on one of them")
         bolt = None
         if grade is not None and mat is not None and d is not None:
             from .jobfile_lifting import bolt_spec
 
             bolt = bolt_spec(r, where, t, grade, d, len(plates_t))
+        pin_model = r.text_field(where, t, "pin_model", choices=["uniform", "point"], default="uniform")
+        wear = r.qty(where, t, "wear", "length", required=False, nonneg=True) or 0.0
+        retainer = r.qty(where, t, "retainer", "force", required=False, positive=True)
         out[name] = Pin(name, f["xy"], f["bodies"], d, mat, tuple(stack),
                         r.flag(where, t, "replaceable"), r.flag(where, t, "rotates"), bolt,
-                        r.flag(where, t, "secured"))
+                        r.flag(where, t, "secured"), pin_model=pin_model, wear=wear, retainer=retainer)
     return out
+
+
+def _direction(r: _Reader, where: str, field: str, v) -> tuple[float, float] | None:
+    """A direction: [x, y] (any length but zero) or an angle from +x ("30 deg")."""
+    if isinstance(v, list):
+        if (len(v) != 2 or not all(isinstance(c, (int, float)) and not isinstance(c, bool) and math.isfinite(c)
+                                   for c in v) or math.hypot(*v) == 0):
+            r.bad(where, field, f"expected a direction [x, y] (numbers, not both zero) or an angle such as "
+                  f"\"30 deg\", got {v!r}")
+            return None
+        h = math.hypot(*v)
+        return (v[0] / h, v[1] / h)
+    ang = r.qty(where, {field: v}, field, "angle")
+    return None if ang is None else (math.cos(ang), math.sin(ang))
+
+
+def _lug_fields(r: _Reader, pw: str, p: dict, shape, width, end, hole, th, own, cases) -> dict | None:
+    """Outline, axis, group, bushing and lateral load of a checked plate (None if something is wrong)."""
+    from .lug import Outline, base_section, polygon_area, polygon_simple
+
+    ok = True
+    axis = _direction(r, pw, "axis", p["axis"]) if "axis" in p else None
+    ok &= axis is not None or "axis" not in p
+    base = r.qty(pw, p, "base", "length", required=False, positive=True)
+    outline = None
+    if shape == "polygon":
+        for k in ("width", "end", "arc_centre", "radius", "base"):
+            if k in p:
+                r.bad(pw, k, f"a polygon lug takes its geometry from 'outline'; remove '{k}'")
+                ok = False
+        v = p.get("outline")
+        if not isinstance(v, list) or len(v) < 3:
+            r.bad(pw, "outline", "a polygon lug needs outline = [[s, n], ...], at least 3 corners in lug axes "
+                  "(s along the axis, n across, hole centre at [0, 0]); the last-to-first edge is the base")
+            return None
+        pts = [_xy(r, pw, "outline", q) for q in v]
+        if None in pts:
+            return None
+        if abs(polygon_area(pts)) <= 0 or not polygon_simple(pts):
+            r.bad(pw, "outline", "the polygon's edges cross or it has no area; list its corners in order round it")
+            return None
+        if axis is None:
+            r.bad(pw, "axis", "a polygon lug needs its axis in the frame, axis = [x, y] or \"θ deg\", to place "
+                  "its outline")
+            ok = False
+        outline = Outline("polygon", vertices=tuple(pts))
+    else:
+        if "outline" in p:
+            r.bad(pw, "outline", f"'outline' is for shape = \"polygon\", not a {shape} lug")
+            ok = False
+        centre = (0.0, 0.0)
+        radius = end
+        if "arc_centre" in p or "radius" in p:
+            if shape != "round":
+                r.bad(pw, "arc_centre", "arc_centre and radius are for a round-ended lug")
+                return None
+            if "end" in p:
+                r.bad(pw, "end", "with arc_centre give the arc's radius, not end; remove 'end'")
+                return None
+            c = _xy(r, pw, "arc_centre", p.get("arc_centre", [0, 0])) if "arc_centre" in p else (0.0, 0.0)
+            radius = r.qty(pw, p, "radius", "length", positive=True)
+            if c is None or radius is None:
+                return None
+            centre = c
+        if width is None or radius is None:
+            return None
+        if base is not None or centre != (0.0, 0.0):
+            outline = Outline(shape, width=width, end=radius, centre=centre, base=base)
+    if outline is not None and hole is not None and ok:
+        if not outline.min_reach() > hole / 2:
+            r.bad(pw, "outline" if shape == "polygon" else "base", "the hole does not fit inside the lug's "
+                  "outline: some edge is nearer the hole centre than half the hole diameter")
+            ok = False
+    group = r.text_field(pw, p, "group")
+    bushing = None
+    if "bushing_od" in p or "bushing_material" in p:
+        od = r.qty(pw, p, "bushing_od", "length", positive=True)
+        mname = p.get("bushing_material")
+        if mname is None:
+            r.bad(pw, "bushing_material", "a bushing needs its material")
+        bm = _material(r, pw, "bushing_material", mname, (od - hole) / 2 if od and hole and od > hole else th,
+                       own) if mname is not None else None
+        if od is not None and hole is not None and od <= hole:
+            r.bad(pw, "bushing_od", f"the bushing's outside diameter ({p['bushing_od']}) must exceed its bore, "
+                  f"the plate's hole field")
+            od = None
+        if od is None or bm is None:
+            return None
+        bushing = Bushing(od, bm)
+    lateral = None
+    if "lateral" in p or "lateral_force" in p:
+        lateral = _lateral(r, pw, p, cases)
+        if lateral is None:
+            return None
+        geo = outline if outline is not None else Outline(shape, width=width, end=end)
+        h, b = base_section(geo)
+        if h is None:
+            r.bad(pw, "base", "a lateral load is checked at the lug's base section: give base, the distance from "
+                  "the hole centre back to that section (e.g. base = \"150 mm\")")
+            return None
+        bw = r.qty(pw, p, "base_width", "length", required=False, positive=True)
+        if bw is not None:
+            lateral = Lateral(lateral.fraction, lateral.per_case, bw)
+    elif "base_width" in p:
+        r.bad(pw, "base_width", "base_width is for the base-section check of a lateral load; give lateral too")
+        ok = False
+    if not ok:
+        return None
+    return {"outline": outline, "axis": axis, "group": group, "bushing": bushing, "lateral": lateral}
+
+
+def _lateral(r: _Reader, pw: str, p: dict, cases) -> Lateral | None:
+    if "lateral" in p and "lateral_force" in p:
+        r.bad(pw, "lateral_force", "give either lateral (a share of the in-plane force) or lateral_force (per "
+              "case), not both")
+        return None
+    if "lateral" in p:
+        v = p["lateral"]
+        frac = None
+        if isinstance(v, str) and v.strip().endswith("%"):
+            try:
+                frac = float(v.strip()[:-1]) / 100
+            except ValueError:
+                frac = None
+        elif isinstance(v, (int, float)) and not isinstance(v, bool):
+            frac = float(v)
+        if frac is None or not math.isfinite(frac) or not 0 < frac <= 1:
+            r.bad(pw, "lateral", f"a lateral load as a share of the in-plane force: a fraction 0 < x <= 1 or a "
+                  f"percentage such as \"5 %\"; got {v!r}")
+            return None
+        return Lateral(frac)
+    t = p["lateral_force"]
+    if not isinstance(t, dict) or not t:
+        r.bad(pw, "lateral_force", "expected a table of load case = force, e.g. lateral_force = { lift = \"8 kN\" }")
+        return None
+    per = {}
+    for c, v in t.items():
+        if c not in cases:
+            r.bad(pw, "lateral_force", f"there is no load case '{c}'{suggest(c, cases)}")
+            return None
+        f = r.qty(pw, {f"lateral_force.{c}": v}, f"lateral_force.{c}", "force")
+        if f is None:
+            return None
+        per[c] = f
+    return Lateral(None, per)

@@ -66,6 +66,23 @@ class Place:
 
 
 @dataclass(frozen=True)
+class Bushing:
+    """A bushing fitted in a plate's hole: the pin bears on its bore, it bears on the plate."""
+
+    outer: float  # outside diameter = the plate's hole [m]
+    material: Material
+
+
+@dataclass(frozen=True)
+class Lateral:
+    """A load on a lug out of the frame's plane: a fraction of its in-plane force, or a force per case [N]."""
+
+    fraction: float | None = None
+    per_case: dict[str, float] = field(default_factory=dict)
+    base_width: float | None = None  # width of the base section (None: from the outline)
+
+
+@dataclass(frozen=True)
 class Plate:
     """One plate (or other member) of a pin's stack, in order along the pin.
 
@@ -84,6 +101,11 @@ class Plate:
     hole: float  # hole diameter in this plate
     en_type: str  # EN 1993-1-8 Table 3.9 type: "A" or "B"
     stiffened: bool = False  # stiffened out of plane against dishing (ASME BTH-1 §3-3.3.1 4t limit waived)
+    outline: object | None = None  # a pinchk.lug.Outline; None: round (radius end) or square, from width/end
+    axis: tuple[float, float] | None = None  # lug axis (frame coordinates); None: along each case's force
+    group: str | None = None  # plates of one member with one group act as one (main plate and cheeks)
+    bushing: Bushing | None = None
+    lateral: Lateral | None = None
 
     @property
     def checked(self) -> bool:
@@ -104,6 +126,9 @@ class Pin:
     rotates: bool = False
     bolt: BoltSpec | None = None  # the pin is a bolt of a grade (its material is the grade's strengths)
     secured: bool = False  # secured against working loose (cotter, keeper plate, nut), as the job says
+    pin_model: str = "uniform"  # bearing on the pin: "uniform" over each plate, or "point" at plate centres
+    wear: float = 0.0  # wear allowance on every hole's diameter [m] (a larger service clearance)
+    retainer: float | None = None  # axial capacity of the pin's retainer [N], if given
 
     @property
     def checked(self) -> bool:

@@ -9,6 +9,7 @@ import json
 from .. import __version__
 from . import CAUTION
 from .common import convert, force_rows, governing_by_check, unit_of, units_of, verdict
+from .joints import joint_dict
 
 CSV_COLUMNS = ("pin", "part", "check", "case", "demand", "capacity", "unit", "utilization", "status", "clause",
                "formula", "factors", "note")
@@ -67,6 +68,7 @@ def to_dict(results) -> dict:
         "solver": sol.solver,
         "warnings": [*getattr(sol, "warnings", ()), *getattr(results, "warnings", ())],
         "equilibrium_residual": sol.residual,
+        "joints": joint_dict(results, units),
         "unchecked_pins": list(results.unchecked),
         "assumptions": list(results.assumptions),
         "caution": CAUTION,

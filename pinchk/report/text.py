@@ -51,6 +51,9 @@ def render_table(results, all_cases: bool = False, forces: bool = True) -> str:
             out.append(tabulate(lk, headers=["case", "link", f"T [{fu}]"], disable_numparse=True))
             out.append("")
 
+    from .joints import joint_text
+
+    out += joint_text(results, units)
     c = results.columns
     idx = [int(i) for i in results.order] if all_cases else governing_by_check(results)
     rows = []
