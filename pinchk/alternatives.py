@@ -368,7 +368,8 @@ def _stack_ratios(base: Base, name: str, thick: dict[str, float], cache: dict):
         if (name, None) not in cache:
             cache[(name, None)] = solve_stack(pin, base.sol.pins[name])
         st0 = cache[(name, None)]
-        stack = tuple(replace(p, thickness=thick[p.member]) if p.member in thick and p.checked else p
+        stack = tuple(replace(p, thickness=_thickness(pin, p, thick[p.member])) if p.member in thick and p.checked
+                      else p
                       for p in pin.stack)
         st1 = solve_stack(replace(pin, stack=stack), base.sol.pins[name])
         f0 = np.linalg.norm(st0.plate_force, axis=-1)
@@ -393,7 +394,8 @@ def _build(base: Base, name: str, options: list[Option], method: str, fac: dict)
     members = base.part_member[name]
     plate_of = {}
     for p in pin.stack:
-        plate_of.setdefault(p.member, p)
+        if p.checked:
+            plate_of.setdefault(p.member, p)
     t0 = Q["t"][::nc][:nq] if nq else np.zeros(0)
     fu0 = Q["fu"][::nc][:nq] if nq else np.zeros(0)
     t_part = np.tile(t0, (na, 1))
@@ -449,19 +451,24 @@ def _build(base: Base, name: str, options: list[Option], method: str, fac: dict)
     if nq:
         rq = lambda a: np.repeat(a.reshape(na, nq), nc, axis=1).ravel()  # noqa: E731  (option, part) onto rows
         d0_old = Q["d0"].copy()
-        Q["d"] = np.repeat(d_opt, nq * nc)
-        Q["d0"] = d0_old + (Q["d"] - np.tile(base.Q["d"][qr], na))  # each hole keeps its clearance
+        # the pin, every hole (and a bushing's outside) move with the diameter: clearances and walls kept
+        delta = np.repeat(d_opt - pin.diameter, nq * nc)
+        Q["d"] = Q["d"] + delta
+        Q["d0"] = d0_old + delta
         Q["t"] = rq(t_part)
         for key, arr in (("fy", fy_part), ("fu", fu_part), ("E", E_part)):
             Q[key] = np.where(np.isnan(rq(arr)), Q[key], rq(arr))
-        Q["fyp"] = np.where(np.isnan(np.repeat(fyp, nq * nc)), Q["fyp"], np.repeat(fyp, nq * nc))
+        # a bushed plate bears on its bushing, whose material stays
+        bushed = np.tile(np.repeat(np.array([k is not None and getattr(pin.stack[k], "bushing", None) is not None
+                                             for k in part_stack], bool), nc), na)
+        fyp_r, fup_r = np.repeat(fyp, nq * nc), np.repeat(fup, nq * nc)
+        Q["fyp"] = np.where(np.isnan(fyp_r) | bushed, Q["fyp"], fyp_r)
         if "fup" in Q:
-            Q["fup"] = np.where(np.isnan(np.repeat(fup, nq * nc)), Q["fup"], np.repeat(fup, nq * nc))
+            Q["fup"] = np.where(np.isnan(fup_r) | bushed, Q["fup"], fup_r)
         Q["F"] = Q["F"] * f_ratio.ravel()
         # geometry: given, derived from the detailing rules, or the job's scaled with the hole
         end, width = Q["a_end"].copy(), Q["width"].copy()
         hole_scale = _ratio(Q["d0"], d0_old)
-        changed = np.abs(Q["d0"] - d0_old) > 1e-12
         any_detail = any(o.detail for o in options)
         if any_detail:
             rule = DETAILING.get(method)
@@ -483,21 +490,23 @@ def _build(base: Base, name: str, options: list[Option], method: str, fac: dict)
             with np.errstate(invalid="ignore", divide="ignore"):
                 e_req = np.where(steps > 0, np.ceil(e_req / np.where(steps > 0, steps, 1) - 1e-9) * steps, e_req)
                 w_req = np.where(steps > 0, np.ceil(w_req / np.where(steps > 0, steps, 1) - 1e-9) * steps, w_req)
-            end = np.where(det, e_req, np.where(changed, end * hole_scale, end))
-            width = np.where(det, w_req, np.where(changed, width * hole_scale, width))
-        else:
-            end = np.where(changed, end * hole_scale, end)
-            width = np.where(changed, width * hole_scale, width)
+            end = np.where(det, e_req, end)
+            width = np.where(det, w_req, width)
+        # otherwise each plate keeps its outline and the hole grows or shrinks in it: a_end (hole centre to
+        # the edge) and width stay, the distances from the hole edge change by half the hole's change
         given = ~np.isnan(rq(geo_given[..., 0]))
         end = np.where(given, rq(geo_given[..., 0]), end)
         width = np.where(given, rq(geo_given[..., 1]), width)
         Q["a_end"], Q["width"] = end, width
-        # per-case geometry along the force, where the columns carry it (a round lug along its force)
+        # per-case geometry along the force, where the columns carry it: a round lug along its force where
+        # the geometry is set, the job's outline (the hole edge moving) otherwise
+        setg = given | (np.repeat(np.array([o.detail for o in options]), nq * nc) if any_detail else False)
+        half = (Q["d0"] - d0_old) / 2
         if "a" in Q:
-            Q["a"] = end - Q["d0"] / 2
+            Q["a"] = np.where(setg, end - Q["d0"] / 2, Q["a"] - half)
         for key in ("c_pos", "c_neg"):
             if key in Q:
-                Q[key] = width / 2 - Q["d0"] / 2
+                Q[key] = np.where(setg, width / 2 - Q["d0"] / 2, Q[key] - half)
         geometry[:, :, 0] = t_part
         geometry[:, :, 1] = end.reshape(na, nq, nc)[:, :, 0]
         geometry[:, :, 2] = width.reshape(na, nq, nc)[:, :, 0]
@@ -509,8 +518,10 @@ def _plates_of_option(o: Option, members, plate_of, t_row, fy_row, fu_row, E_row
     thick, pmat = dict(o.thickness), dict(o.plate_material)
     geo = {m: (e, w) for m, e, w in o.geometry}
     for j, m in enumerate(members):
-        t = thick.get(m, t_row[j])
-        t_row[j] = t
+        # the member's plates scale together so that its first plate has the thickness (a part that is a
+        # group of plates, a main plate with cheeks, scales with them)
+        t = thick[m] if m in thick else plate_of[m].thickness
+        t_row[j] = t_row[j] * t / plate_of[m].thickness
         plate = plate_of[m]
         mname = pmat.get(m)
         if mname is None and m in thick and _from_library(plate.material):
@@ -524,6 +535,12 @@ def _plates_of_option(o: Option, members, plate_of, t_row, fy_row, fu_row, E_row
         if m in geo:
             geo_row[j] = geo[m]
     return why
+
+
+def _thickness(pin, plate, t_first: float) -> float:
+    """Thickness of ``plate`` when the first checked plate of its member at ``pin`` takes ``t_first``."""
+    first = next(p for p in pin.stack if p.member == plate.member and p.checked)
+    return plate.thickness * t_first / first.thickness
 
 
 def _stack_index(pin, label: str) -> int | None:
@@ -702,7 +719,7 @@ def apply_option(job: Job, name: str, opt: Option,
         if not p.checked:
             stack.append(replace(p, hole=p.hole + d - pin.diameter))
             continue
-        t = thick.get(p.member, p.thickness)
+        t = _thickness(pin, p, thick[p.member]) if p.member in thick else p.thickness
         mname = pmat.get(p.member) or (p.material.name if p.member in thick and _from_library(p.material) else None)
         m = _material(mname, t) if mname else p.material
         if isinstance(m, str):
@@ -713,8 +730,10 @@ def apply_option(job: Job, name: str, opt: Option,
             if lab is not None:
                 _, e, w = geometry[lab]
                 q = replace(q, end=e, width=w)
-                if getattr(q, "outline", None) is not None:
+                if getattr(q, "outline", None) is not None:  # a sized plate is a lug along its force
                     q = replace(q, outline=None)
+                if getattr(q, "axis", None) is not None:
+                    q = replace(q, axis=None)
         stack.append(q)
     new = replace(pin, diameter=d, material=mat, stack=tuple(stack))
     return replace(job, pins={**job.pins, name: new})
@@ -730,7 +749,7 @@ class Comparison:
     job: Job
     method: str
     sweeps: dict[str, PinSweep]
-    marked: dict[str, int | None]
+    marked: dict[str, tuple[int, ...]]  # per pin: the lightest passing option (one per method compared)
     ranked: bool
     notes: tuple[str, ...]
     skipped: dict[str, tuple[str, ...]]
@@ -852,7 +871,13 @@ def compare(job: Job, pins: list[str] | None = None, base: Base | None = None, *
     marked = {}
     for n, sw in sweeps.items():
         ok = np.flatnonzero(sw.passed)
-        marked[n] = None if only_methods or not len(ok) else int(min(ok, key=lambda i: (_rank(sw, i, job.pins[n]), i)))
+        marks = []
+        if not only_methods:
+            for me in dict.fromkeys(o.method for o in sw.options):  # with methods compared: one mark per method
+                cand = [int(i) for i in ok if sw.options[i].method == me]
+                if cand:
+                    marks.append(min(cand, key=lambda i: (_rank(sw, i, job.pins[n]), i)))
+        marked[n] = tuple(marks)
     notes = []
     if any(o.method is not None for opts in req.values() for o in opts):
         notes.append("every method is given the same joint forces, from the job's loads as they stand; each method "
@@ -861,9 +886,13 @@ def compare(job: Job, pins: list[str] | None = None, base: Base | None = None, *
         notes.append("a method other than the job's uses its default factors")
     if not only_methods:
         notes.append("marked: the lightest option that passes (smallest pin diameter, then thinnest plates), then the "
-                     "lowest pin strength, then the lowest plate strength")
-    notes.append("a pin diameter other than the job's keeps each hole's clearance; end and width are the job's, "
-                 "scaled with the hole; a pin or plate material from the library is taken at the new size")
+                     "lowest pin strength, then the lowest plate strength; one per method where methods are compared")
+    notes.append("a pin diameter other than the job's keeps each plate's outline (the hole grows or shrinks in it) "
+                 "and each hole's clearance; a pin or plate material from the library is taken at the new size")
+    if any(getattr(p, "bushing", None) is not None or getattr(p, "lateral", None) is not None
+           for n in names for p in job.pins[n].stack):
+        notes.append("a bushing's own checks (the pin on its bore), a lug base under a lateral load and a pin "
+                     "retainer are not part of the comparison: check the chosen design with pinchk run")
     return Comparison(job, base.job.method.name, sweeps, marked, not only_methods, tuple(notes), skipped)
 
 

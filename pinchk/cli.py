@@ -222,7 +222,7 @@ def _cmd_compare(a) -> int:
         "members": a.member,
     }
     cmp = alt.compare(job, pins=a.pin, **kw)
-    ok = all(m is not None for m in cmp.marked.values()) if cmp.ranked else True
+    ok = all(cmp.marked.values()) if cmp.ranked else True
     n = sum(len(s.options) for s in cmp.sweeps.values())
     return _emit(a, "compare", cmp, ok, _protect(job),
                  f"compared {n} alternatives of {len(cmp.sweeps)} pin(s)"

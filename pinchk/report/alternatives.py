@@ -66,7 +66,7 @@ def compare_rows(cmp) -> list[dict]:
                 "strength_check": sw.strength(i)[1] if ok else "",
                 "strength_utilization": sw.strength(i)[0] if ok else None,
                 "status": "n/a" if not ok else ("pass" if util <= 1.0 else "FAIL"),
-                "marked": cmp.marked.get(n) == i, "note": sw.reason[i]})
+                "marked": i in cmp.marked.get(n, ()), "note": sw.reason[i]})
     return out
 
 
@@ -83,10 +83,9 @@ def compare_table(cmp) -> str:
         out.append(f"pin {n}")
         out.append(tabulate(rows, headers=["alternative", "governing check", "part", "case", "utilization", "status",
                                            "strength check (if not governing)", ""], disable_numparse=True))
-        m = cmp.marked.get(n)
-        if m is not None:
+        for m in cmp.marked.get(n, ()):
             out.append(f"lightest passing: {sw.options[m].label} (utilization {sw.util[m]:.3f})")
-        elif cmp.ranked:
+        if cmp.ranked and not cmp.marked.get(n):
             out.append("no alternative passes")
         if cmp.skipped.get(n):
             out.append(f"left out ({len(cmp.skipped[n])}): " + "; ".join(cmp.skipped[n][:6])
@@ -100,8 +99,7 @@ def compare_table(cmp) -> str:
 def compare_json(cmp) -> str:
     d = _head(cmp.job, cmp.method, "compare")
     rows = compare_rows(cmp)
-    d["pins"] = [{"pin": n, "marked": (cmp.sweeps[n].options[cmp.marked[n]].label if cmp.marked.get(n) is not None
-                                       else None),
+    d["pins"] = [{"pin": n, "marked": [cmp.sweeps[n].options[i].label for i in cmp.marked.get(n, ())],
                   "alternatives": [r for r in rows if r["pin"] == n], "left_out": list(cmp.skipped.get(n, ()))}
                  for n in cmp.sweeps]
     d["notes"] = list(cmp.notes)
