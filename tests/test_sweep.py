@@ -21,6 +21,8 @@ from dataclasses import replace
 import numpy as np
 import pytest
 import sympy as sp
+from hypothesis import given, settings
+from hypothesis import strategies as st
 
 from pinchk import alternatives as alt
 from pinchk import load_job, run
@@ -99,6 +101,29 @@ def test_outline_plates_and_groups_agree_with_the_ordinary_path():
                 and r2.columns["part"][k] in ("pin",) + sw.parts[1:]]
         assert sw.util[i] == pytest.approx(float(r2.columns["utilization"][keep].max()), rel=1e-9), o.label
     assert len(res)
+
+
+@settings(max_examples=25, deadline=None)
+@given(d_mm=st.integers(16, 60), t_tie=st.sampled_from([None, 8, 10, 15, 20]),
+       t_leg=st.sampled_from([None, 16, 25, 30]), grade=st.sampled_from([None, "4.6", "8.8", "10.9"]),
+       mat=st.sampled_from([None, "S235", "S275"]))
+def test_any_option_agrees_with_the_ordinary_path(d_mm, t_tie, t_leg, grade, mat):
+    """Property: for any diameter, thicknesses, grade and plate material of the tie pin PL, the sweep's
+    utilization is that of a full run of the job rebuilt with the option."""
+    job = _GANTRY_JOB
+    th = tuple(x for x in (("tie", t_tie and t_tie / 1e3), ("leg_left", t_leg and t_leg / 1e3)) if x[1])
+    o = alt.Option("h", diameter=d_mm / 1e3, grade=grade if d_mm <= 39 else None, thickness=th,
+                   plate_material=(("tie", mat),) if mat else ())
+    sw = alt.evaluate(_GANTRY_BASE, {"PL": [o]})["PL"]
+    if sw.reason[0]:
+        with pytest.raises(ValueError):
+            alt.apply_option(job, "PL", o)
+        return
+    assert sw.util[0] == pytest.approx(_pin_max(run(alt.apply_option(job, "PL", o)), "PL"), rel=1e-9)
+
+
+_GANTRY_JOB = load_job(GANTRY)
+_GANTRY_BASE = alt.prepare(_GANTRY_JOB)
 
 
 # ------------------------------------------------------------------------------------------------ compare
@@ -371,6 +396,18 @@ def test_cli_compare_json_and_csv(tmp_path, capsys):
     assert rc == 1  # none passes
     lines = capsys.readouterr().out.strip().splitlines()
     assert lines[0].startswith("pin,alternative") and len(lines) == 2
+
+
+def test_cli_size_and_rate_json(capsys):
+    assert main(["size", SPREADER, "--pin", "P_top", "--format", "json"]) == 0
+    d = json.loads(capsys.readouterr().out)
+    p = d["pins"][0]
+    assert p["pin"] == "P_top" and p["found"] and p["diameter"] == 40 and p["next_smaller_diameter"] == 36
+    assert p["next_smaller_utilization"] > 1 >= p["utilization"] and p["plates"]
+    assert d["series"]["pin"][0]["source"].startswith("ISO 2341") and "caution" in d
+    assert main(["rate", SPREADER, "--format", "json"]) == 0
+    r = json.loads(capsys.readouterr().out)
+    assert r["limit"] == "check" and r["governing"]["check"] == "bearing" and r["factor"] > 1
 
 
 def test_cli_size_and_rate(tmp_path, capsys):
