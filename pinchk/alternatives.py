@@ -240,6 +240,30 @@ def _from_library(m: Material | None) -> bool:
     return m is not None and m.name in library() and any(r.source == m.source for r in library()[m.name])
 
 
+def _bolt_at(pin, opt: Option, d: float):
+    """(BoltSpec or None, reason): a bolt pin at diameter ``d`` with the option's grade (its own where none);
+    None for a pin that is not a bolt, or that the option makes a plain pin of a material."""
+    bolt = getattr(pin, "bolt", None)
+    if bolt is None or opt.pin_material is not None:
+        return None, ""
+    if opt.grade is None and d == pin.diameter:
+        return bolt, ""
+    from . import bolts
+
+    try:
+        g = bolts.grade_at(opt.grade or bolt.grade.grade, d)
+    except (KeyError, ValueError) as exc:
+        return None, str(exc)
+    if g.thread == bolt.system and d == pin.diameter:
+        pitch = bolt.pitch
+    else:
+        th = bolts.coarse_thread(g.thread, d)
+        if th is None:
+            return None, f"no {g.thread} coarse thread of this diameter in data/thread_sizes.csv"
+        pitch = th.pitch
+    return replace(bolt, grade=g, system=g.thread, pitch=pitch, As=bolts.stress_area(g.thread, d, pitch)), ""
+
+
 def _pin_material(pin, opt: Option, d: float) -> tuple[Material | None, str | None, str]:
     """(material, bolt grade or None, reason it is not available or "")."""
     if opt.grade is not None:
@@ -406,12 +430,17 @@ def _build(base: Base, name: str, options: list[Option], method: str, fac: dict)
     f_ratio = np.ones((na, nq, nc))
     stack_cache = base.cache
     part_stack = [_stack_index(pin, lab) for lab in base.parts[name]]
+    is_bolt, As_opt = np.zeros(na, bool), np.zeros(na)
     for i, o in enumerate(options):
         d = pin.diameter if o.diameter is None else o.diameter
         d_opt[i] = d
         mat, grade, why = _pin_material(pin, o, d)
-        if not why and getattr(pin, "bolt", None) is not None and d != pin.diameter:
-            why = _thread_reason(pin, d)
+        spec, why_b = _bolt_at(pin, o, d)
+        why = why or why_b
+        is_bolt[i] = spec is not None
+        As_opt[i] = spec.As if spec is not None else np.pi * d**2 / 4
+        if spec is not None:
+            grade = spec.grade.grade
         if not why:
             fup[i], fyp[i] = mat.fu, mat.fy
         else:
@@ -433,7 +462,6 @@ def _build(base: Base, name: str, options: list[Option], method: str, fac: dict)
                           if nq else np.full(na, np.inf)], axis=1)
     rep = lambda a: np.repeat(a, nc)  # noqa: E731  option values onto pin rows
     if len(pr):
-        d_old = P["d"].copy()
         P["d"] = rep(d_opt)
         P["fup"] = np.where(np.isnan(rep(fup)), P["fup"], rep(fup))
         P["fyp"] = np.where(np.isnan(rep(fyp)), P["fyp"], rep(fyp))
@@ -442,11 +470,11 @@ def _build(base: Base, name: str, options: list[Option], method: str, fac: dict)
                 P[key] = P[key] * v_ratio.ravel()
         P["M"] = P["M"] * m_ratio.ravel()
         if "As" in P:
-            P["As"] = _stress_area(pin, P["As"], d_old, P["d"])
-        if "grade" in P and any(g is not None for g in grade_col):
-            P["grade"] = np.repeat(np.array([g if g is not None else "" for g in grade_col], dtype=object), nc)
-            if "bolt" in P and pin.bolt is None:
-                P["bolt"] = np.zeros(na * nc, bool)  # a grade's strengths for a plain pin: shank in every plane
+            P["As"] = rep(As_opt)
+        if "bolt" in P:  # a grade's strengths on a plain pin, or a bolt pin made of a material: shank everywhere
+            P["bolt"] = rep(is_bolt)
+        if "grade" in P:
+            P["grade"] = np.repeat(np.array([g or "" for g in grade_col], dtype=object), nc)
     geometry = np.zeros((na, nq, 3))
     if nq:
         rq = lambda a: np.repeat(a.reshape(na, nq), nc, axis=1).ravel()  # noqa: E731  (option, part) onto rows
@@ -554,36 +582,6 @@ def _stack_index(pin, label: str) -> int | None:
         return ix[int(tail) - 1]
     except (ValueError, IndexError):
         return ix[0] if ix else None
-
-
-def _thread_reason(pin, d: float) -> str:
-    """"" if the bolt's thread system lists a coarse thread of diameter ``d``, else why not."""
-    try:
-        from . import bolts
-    except ImportError:
-        return "bolt threads are not available in this version"
-    if bolts.coarse_thread(pin.bolt.grade.thread, d) is None:
-        return f"no {pin.bolt.grade.thread} coarse thread of {d * 1e3:g} mm in data/thread_sizes.csv"
-    return ""
-
-
-def _stress_area(pin, As, d_old, d_new):
-    """Thread stress area of a bolt at the new diameter (the pin's As where the diameter is unchanged)."""
-    bolt = getattr(pin, "bolt", None)
-    if bolt is None:
-        return np.pi * d_new**2 / 4
-    try:
-        from . import bolts
-    except ImportError:
-        return As
-    out = np.array(As, float)
-    for dv in np.unique(d_new):
-        sel = (d_new == dv) & (np.abs(d_old - dv) > 1e-12)
-        if sel.any():
-            th = bolts.coarse_thread(bolt.grade.thread, float(dv))
-            out[sel] = th.table_As if th is not None and th.table_As else (
-                bolts.stress_area(bolt.grade.thread, float(dv), th.pitch) if th is not None else np.nan)
-    return out
 
 
 def _utils(checks, n, kinds=None):
@@ -735,7 +733,12 @@ def apply_option(job: Job, name: str, opt: Option,
                 if getattr(q, "axis", None) is not None:
                     q = replace(q, axis=None)
         stack.append(q)
+    spec, why = _bolt_at(pin, opt, d)
+    if why:
+        raise ValueError(why)
     new = replace(pin, diameter=d, material=mat, stack=tuple(stack))
+    if getattr(pin, "bolt", None) is not None:
+        new = replace(new, bolt=spec)
     return replace(job, pins={**job.pins, name: new})
 
 

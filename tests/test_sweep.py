@@ -85,6 +85,20 @@ def test_options_agree_with_the_ordinary_path(gantry):
         assert sw.util[i] == pytest.approx(_pin_max(run(job2), "PL"), rel=1e-9), o.label
 
 
+def test_bolt_pin_options_agree_with_the_ordinary_path(spreader):
+    """The spreader's M36 class 10.9 bolt pin P_B at other grades and sizes (the thread stress area from the
+    ISO 898-1 formula at the new size) and made a plain pin of 42CrMo4: against full runs."""
+    base = alt.prepare(spreader)
+    opts = [alt.Option("a", grade="8.8"), alt.Option("b", diameter=0.030), alt.Option("c", diameter=0.024,
+            grade="12.9"), alt.Option("d", pin_material="42CrMo4+QT"), alt.Option("e", diameter=0.021)]
+    sw = alt.evaluate(base, {"P_B": opts})["P_B"]
+    assert "thread" in sw.reason[4]  # M21 is no coarse thread of data/thread_sizes.csv
+    for i, o in enumerate(opts[:4]):
+        job2 = alt.apply_option(spreader, "P_B", o)
+        assert (job2.pins["P_B"].bolt is None) == (o.pin_material is not None)
+        assert sw.util[i] == pytest.approx(_pin_max(run(job2), "P_B"), rel=1e-9), o.label
+
+
 def test_outline_plates_and_groups_agree_with_the_ordinary_path():
     """The boom head joint (lug outlines along the force, a main plate with cheeks checked as one group,
     a bushed lug): a bigger pin in the same outlines, and thicker boom plates, against full runs."""
