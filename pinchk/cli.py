@@ -96,14 +96,19 @@ def _write(path: str, text: str, protect: list[str]) -> None:
         if os.path.exists(q) and os.path.exists(real) and os.path.samefile(real, q):
             raise OSError(f"refusing to overwrite the input file {q}")
     folder = os.path.dirname(real) or "."
-    fd, tmp = tempfile.mkstemp(prefix=".pinchk-", dir=folder)
+    try:
+        fd, tmp = tempfile.mkstemp(prefix=".pinchk-", dir=folder)
+    except OSError as exc:
+        raise OSError(exc.errno, f"cannot write {path}: {exc.strerror or exc}") from None
     try:
         with os.fdopen(fd, "w", encoding="utf-8", newline="") as fh:
             fh.write(text)
         os.replace(tmp, real)
-    except BaseException:
+    except BaseException as exc:
         if os.path.exists(tmp):
             os.unlink(tmp)
+        if isinstance(exc, OSError):  # name the output the user gave, not the temporary file
+            raise OSError(exc.errno, f"cannot write {path}: {exc.strerror or exc}") from None
         raise
 
 

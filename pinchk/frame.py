@@ -83,12 +83,17 @@ def _members(job: Job) -> dict[str, list[str]]:
     return members
 
 
+def _places(job: Job) -> list[tuple[float, float]]:
+    """Every point of the frame: body points and pins (a pin may stand where only links meet)."""
+    return [xy for b in job.bodies.values() for xy in b.points.values()] + [p.xy for p in job.pins.values()]
+
+
 def assemble(job: Job):
     """Equilibrium equations ``A x = b`` of the job, with the numbering used."""
     cases = tuple(job.cases)
     case_ix = {c: i for i, c in enumerate(cases)}
     members = _members(job)
-    xs = [xy for b in job.bodies.values() for xy in b.points.values()]
+    xs = _places(job)
     span = float(np.ptp(np.asarray(xs), axis=0).max()) if len(xs) > 1 else 1.0
     L = span if span > 0 else 1.0  # moment rows are divided by L so every entry is of order one
 
@@ -328,7 +333,9 @@ def equilibrium_residual(job: Job, sol: FrameSolution) -> float:
     """Largest out-of-balance force or moment of any body or pin, relative to the largest force.
 
     Worked from the solved forces themselves, not from the matrix that produced them, so an assembly
-    mistake cannot hide: every body sums what its pins, links, supports and loads put on it.
+    mistake cannot hide: every body sums what its pins, links, supports and loads put on it, every pin
+    what its bodies, links, support and hung load put on it (from the link tensions and reactions
+    reported, each of which must also be the opposite of the force the pin reports for that member).
     """
     n_case = len(sol.cases)
     F = {b: np.zeros((n_case, 3)) for b in job.bodies}  # Fx, Fy, Mz about the origin
@@ -339,11 +346,19 @@ def equilibrium_residual(job: Job, sol: FrameSolution) -> float:
         F[body][:, 1] += f[:, 1]
         F[body][:, 2] += xy[0] * f[:, 1] - xy[1] * f[:, 0] + m
 
+    # what a link, support or hung load puts on a pin, summed from those members' own results and
+    # compared with the entry the pin reports for that member (it must be the opposite)
+    on_pin: dict[tuple[str, str], npt.NDArray[np.float64]] = {}
+
+    def put_pin(pname: str, member: str, f) -> None:
+        P[pname] += f
+        on_pin[(pname, member)] = on_pin.get((pname, member), 0.0) + f
+
     for pname, pf in sol.pins.items():
         xy = job.pins[pname].xy
         for k, m in enumerate(pf.members):
-            P[pname] -= pf.force[:, k, :]
             if m in job.bodies:
+                P[pname] -= pf.force[:, k, :]
                 put(m, xy, pf.force[:, k, :])
     for lname, link in job.links.items():
         a, b = link.ends
@@ -353,9 +368,13 @@ def equilibrium_residual(job: Job, sol: FrameSolution) -> float:
             f = np.outer(sol.links[lname], s * u)
             if end.pin is None:
                 put(end.body, end.xy, f)
+            else:
+                put_pin(end.pin, lname, f)
     for sname, s in job.supports.items():
         if s.at.pin is None:
             put(s.at.body, s.at.xy, sol.supports[sname][:, :2], sol.supports[sname][:, 2])
+        else:
+            put_pin(s.at.pin, GROUND, sol.supports[sname][:, :2])
     for load in job.loads:
         j = sol.cases.index(load.case)
         f = np.zeros((n_case, 2))
@@ -363,10 +382,16 @@ def equilibrium_residual(job: Job, sol: FrameSolution) -> float:
         mz = np.zeros(n_case)
         mz[j] = load.moment
         if load.at.pin is not None and load.body is None:
-            continue  # a pin's own load is one of its members ("load") and already in P
-        put(load.body or load.at.body, load.at.xy, f, mz)
+            put_pin(load.at.pin, PIN_LOAD, f)
+        else:
+            put(load.body or load.at.body, load.at.xy, f, mz)
+    mismatch = [np.zeros((n_case, 2))]
+    for pname, pf in sol.pins.items():
+        for k, m in enumerate(pf.members):
+            if m not in job.bodies:
+                mismatch.append(pf.force[:, k, :] + on_pin.get((pname, m), 0.0))
 
-    xs = np.asarray([xy for b in job.bodies.values() for xy in b.points.values()])
+    xs = np.asarray(_places(job))
     L = max(float(np.abs(xs).max()), 1e-9)
     scale = max(
         [np.abs(pf.force).max(initial=0.0) for pf in sol.pins.values()]
@@ -379,6 +404,6 @@ def equilibrium_residual(job: Job, sol: FrameSolution) -> float:
     worst = 0.0
     for f in F.values():
         worst = max(worst, np.abs(f[:, :2]).max(initial=0.0), np.abs(f[:, 2]).max(initial=0.0) / L)
-    for p in P.values():
+    for p in [*P.values(), *mismatch]:
         worst = max(worst, np.abs(p).max(initial=0.0))
     return worst / scale

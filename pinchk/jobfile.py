@@ -48,21 +48,35 @@ def suggest(word: str, choices) -> str:
 
 
 def _line_of(text: str, table: str, field: str) -> int | None:
-    """Best-effort line number of ``field`` under a table header (tomllib keeps none)."""
+    """Best-effort line number of ``field`` in its table (tomllib keeps none).
+
+    ``table`` is a table's dotted name, or "NAME #k" for the k-th of an array of tables [[NAME]]. The
+    field is looked for from the table's header up to the next header; if it is not there (a missing
+    field), the header's line is given.
+    """
     lines = text.splitlines()
-    head = table.split("[")[0]
-    start = 0
-    if head:
+    name, _, nth = table.partition(" #")
+    k = int(nth) if nth.isdigit() else 1
+    start = -1
+    if name:
+        seen = 0
         for i, ln in enumerate(lines):
-            s = ln.strip().replace(" ", "")
-            if s in (f"[{head}]", f"[[{head}]]"):
-                start = i
-                break
-    for i in range(start, len(lines)):
+            s = ln.split("#", 1)[0].replace(" ", "").replace("\t", "")
+            if s in (f"[{name}]", f"[[{name}]]"):
+                seen += 1
+                if seen == k:
+                    start = i
+                    break
+        else:
+            return None
+    key = field.split(".", 1)[0]
+    for i in range(start + 1, len(lines)):
         s = lines[i].lstrip()
-        if field and (s.startswith(field + " ") or s.startswith(field + "=")):
+        if s.startswith("["):
+            break
+        if key and (s.startswith(key + " ") or s.startswith(key + "=")):
             return i + 1
-    return start + 1 if head else None
+    return start + 1 if name else None
 
 
 class _Reader:
@@ -73,13 +87,19 @@ class _Reader:
         self.text = text
         self.c = Collector(path)
         self.default_units: dict[str, str] = {}
+        self.misspelt: set[tuple[str, str]] = set()  # (table, field) a misspelt name stands for
 
     def bad(self, table: str, field: str, message: str) -> None:
+        if message.startswith("missing") and (table, field) in self.misspelt:
+            return  # already reported: the field is there, misspelt, and the message says so
         self.c.add(table, field, message, _line_of(self.text, table, field))
 
     def keys(self, table: str, data: dict, kind: str) -> None:
         for k in data:
             if k not in KEYS[kind]:
+                near = difflib.get_close_matches(k, list(KEYS[kind]), n=1, cutoff=0.6)
+                if near and near[0] not in data:
+                    self.misspelt.add((table, near[0]))
                 self.bad(table, k, f"unknown field '{k}'{suggest(k, KEYS[kind])}; "
                          f"fields here are: {', '.join(sorted(KEYS[kind]))}")
 
@@ -297,8 +317,11 @@ def _xy(r: _Reader, where: str, field: str, v) -> tuple[float, float] | None:
 def _bodies(r: _Reader, data: dict, required: bool = True) -> dict[str, Body]:
     out: dict[str, Body] = {}
     bt = r.table(data, "body", "")
-    if not bt and required:
-        r.bad("body", "", "no bodies: describe at least one [body.NAME] with its points")
+    pt = data.get("pin")
+    own_place = isinstance(pt, dict) and any(isinstance(t, dict) and "at" in t for t in pt.values())
+    if not bt and required and not own_place:
+        r.bad("body", "", "no bodies: describe at least one [body.NAME] with its points (or, for links "
+              "only, pins at places of their own, at = [x, y])")
     for name, t in bt.items():
         where = f"body.{name}"
         if not isinstance(t, dict):
@@ -479,7 +502,7 @@ def _supports(r: _Reader, data: dict, bodies, pins, required: bool = True) -> di
                 continue
             at_pin[place.pin] = name
         out[name] = Support(name, kind, place, normal)
-    if not st and bodies and required:
+    if not st and (bodies or pins) and required:
         r.bad("support", "", "no supports: a frame needs at least one [support.NAME] to stand on")
     return out
 
@@ -683,6 +706,16 @@ def _pins_stack(r: _Reader, pt: dict, frame: dict, links, supports, loads, own, 
                           "every member at a checked pin needs its plate")
             if len(stack) < 2:
                 r.bad(where, "plate", "a stack needs at least two plates")
+            for m in dict.fromkeys(members):
+                given = [pl.share for pl in stack if pl.member == m]
+                if all(g is None for g in given):
+                    continue
+                if any(g is None for g in given):
+                    r.bad(where, "plate", f"member '{m}' gives a share on some of its plates only; give "
+                          "share on every plate of the member, or on none (then in proportion to thickness)")
+                elif abs(sum(given) - 1.0) > 1e-6:
+                    r.bad(where, "plate", f"the shares of member '{m}' add up to {sum(given):g}; the plates of "
+                          "a member carry all of its force between them, so its shares must add up to 1")
             for key in {(pl.member, pl.group) for pl in stack if pl.group is not None}:
                 ix = [i for i, pl in enumerate(stack) if (pl.member, pl.group) == key]
                 if ix != list(range(ix[0], ix[-1] + 1)):

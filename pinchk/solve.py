@@ -7,6 +7,8 @@ finds the structure statically indeterminate, by the stiffness method (pinchk.st
 
 from __future__ import annotations
 
+from dataclasses import replace
+
 import numpy as np
 import scipy.sparse as sp
 
@@ -37,6 +39,33 @@ def degree_of_indeterminacy(job: Job) -> tuple[int, int] | None:
 
 
 def solve(job: Job, solver: str | None = None) -> FrameSolution:
+    """Solve the frame of ``job`` (see ``_solve``), with a warning for every roller that would pull."""
+    sol = _solve(job, solver)
+    lifts = roller_uplift(job, sol)
+    return replace(sol, warnings=sol.warnings + lifts) if lifts else sol
+
+
+def roller_uplift(job: Job, sol: FrameSolution) -> tuple[str, ...]:
+    """Warnings for rollers whose reaction pulls on the structure (a wheel or a bearing pad only pushes).
+
+    The solve treats a roller as two-sided, so a negative reaction is a real answer only where the
+    roller is held down (a guided roller, a hold-down bolt); otherwise the structure lifts off there.
+    """
+    out = []
+    for name, s in job.supports.items():
+        if s.kind != "roller":
+            continue
+        r = sol.supports[name][:, 0] * s.normal[0] + sol.supports[name][:, 1] * s.normal[1]
+        scale = max(float(abs(r).max(initial=0.0)), 1e-300)
+        for j, case in enumerate(sol.cases):
+            if r[j] < -1e-9 * scale:
+                out.append(f"roller {name} pulls on the structure in case '{case}' ({r[j] / 1e3:.4g} kN along "
+                           f"its normal): a roller that is not held down lifts off there, and the structure "
+                           f"is then not the one solved")
+    return tuple(out)
+
+
+def _solve(job: Job, solver: str | None = None) -> FrameSolution:
     """Solve the frame of ``job`` by ``solver`` ("auto", "statics", "stiffness"; None: the job's choice).
 
     Raises:

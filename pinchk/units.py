@@ -26,6 +26,9 @@ SI_UNIT = {
     "second moment of area": "m^4",  # second moment of area of a member's section (stiffness solve)
 }
 
+#: The units an angle may be written in (pint holds angles dimensionless, so they are named here).
+ANGLE_UNITS = frozenset({"deg", "degree", "degrees", "rad", "radian", "radians", "°"})
+
 #: Output unit systems: the unit printed for each kind of figure.
 UNIT_SYSTEMS = {
     "SI": {"length": "mm", "force": "kN", "stress": "MPa", "moment": "kN*m", "mass": "t", "angle": "deg"},
@@ -45,10 +48,26 @@ class QuantityError(ValueError):
     """A quantity could not be read; the message says what was expected."""
 
 
+# A power is a unit name raised to a small whole number (mm^2, in**-1). pint evaluates exponent
+# expressions, so a tower such as m^(9^9^9), short as it is, would compute a number of millions of
+# digits: every power operator must match this before pint sees the text.
+_POWER_OP = re.compile(r"\^|\*\*")
+_POWER_OK = re.compile(r"[A-Za-zµ°]\s*(?:\^|\*\*)\s*[+-]?\d{1,2}(?![\d.])(?!\s*(?:\^|\*\*))")
+
+
 @lru_cache(maxsize=256)
 def _unit_factor(unit_text: str, dim: str) -> float:
     """SI factor of a unit expression, checked for dimension (cached: a job repeats its units)."""
+    if len(_POWER_OP.findall(unit_text)) != len(_POWER_OK.findall(unit_text)):
+        raise QuantityError(
+            f"'{unit_text}': a power must be a unit raised to a whole number of at most two digits, "
+            f"such as mm^2 or in**2"
+        )
     q = ureg.Quantity(1.0, unit_text)
+    if dim == "angle" and unit_text.strip() not in ANGLE_UNITS:
+        # pint takes an angle as dimensionless, so "30 percent" would pass as 0.3 rad: name the unit
+        raise QuantityError(f"'{unit_text}' is not a unit of angle; write the angle in "
+                            f"{' or '.join(sorted(ANGLE_UNITS)[:4])}, for example \"30 deg\"")
     try:
         return float(q.to(SI_UNIT[dim]).magnitude)
     except pint.DimensionalityError:
@@ -129,12 +148,14 @@ def to_si(value: object, dim: str, default_unit: str | None = None) -> float:
         factor = _unit_factor(unit_text.strip(), dim)
     except QuantityError:
         raise
-    except (pint.UndefinedUnitError, pint.errors.DefinitionSyntaxError, AttributeError, TypeError,
-            ValueError, SyntaxError, KeyError) as exc:
+    except Exception as exc:  # pint's parser raises many kinds (TokenError, AssertionError, ...)
         raise QuantityError(
             f"{unit_text!r} is not a unit pinchk knows ({type(exc).__name__}); write for example {_example(dim)}"
         ) from None
-    return number * factor
+    si = number * factor
+    if not math.isfinite(si):
+        raise QuantityError(f"{value!r} is not a finite quantity: {number!r} {unit_text} is too large in SI units")
+    return si
 
 
 def check_unit(unit_text: str, dim: str) -> str:

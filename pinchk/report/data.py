@@ -5,6 +5,7 @@ from __future__ import annotations
 import csv
 import io
 import json
+import math
 
 from .. import __version__
 from . import CAUTION
@@ -86,8 +87,20 @@ def _with_axial(sol, rows: list[dict], units) -> list[dict]:
     return rows
 
 
+def _finite(x):
+    """JSON has no infinity or NaN (RFC 8259 §6): such a figure is written as null (its row's status says
+    what it means, e.g. FAIL for a capacity of zero)."""
+    if isinstance(x, float) and not math.isfinite(x):
+        return None
+    if isinstance(x, dict):
+        return {k: _finite(v) for k, v in x.items()}
+    if isinstance(x, (list, tuple)):
+        return [_finite(v) for v in x]
+    return x
+
+
 def render_json(results, **_) -> str:
-    return json.dumps(to_dict(results), indent=2, ensure_ascii=False) + "\n"
+    return json.dumps(_finite(to_dict(results)), indent=2, ensure_ascii=False, allow_nan=False) + "\n"
 
 
 def render_csv(results, **_) -> str:
