@@ -1155,7 +1155,8 @@ class Rating:
     job: Job
     what: str  # "every load", "load case 'lift'", "loads labelled 'hook'"
     factor: float  # the multiplier at the limit (math.inf: no limit found up to factor_max)
-    limit: str  # "check": a check reaches 1; "cable": a cable goes slack; "none"; "at zero"
+    limit: str  # "check": a check reaches 1; "cable": a cable goes slack; "support": a roller lifts off;
+    # "none": no limit up to the largest factor tried; "at zero": a check fails with the loads at zero
     governing: dict[str, object]  # pin, part, check, case, utilization just below the limit
     util_at_1: float  # the largest utilization as the job stands
     linear_estimate: float  # 1 / util_at_1, what a plain division would give
@@ -1178,6 +1179,15 @@ def _scaled_job(job: Job, lam: float, case: str | None, label: str | None) -> Jo
                        supports={n: r * w[:, None] for n, r in sol.supports.items()})
         return replace(job, loads=loads, forces=replace(job.forces, solution=sol2))
     return replace(job, loads=loads)
+
+
+def _uplift(res) -> list[str]:
+    """The solve's warnings for rollers that pull, under the checked (combined) loads."""
+    try:
+        from .solve import roller_uplift
+    except ImportError:
+        return []
+    return list(roller_uplift(res.job, res.solution))
 
 
 def rate(job: Job, case: str | None = None, label: str | None = None, factor_max: float = 1000.0) -> Rating:
@@ -1219,10 +1229,17 @@ def rate(job: Job, case: str | None = None, label: str | None = None, factor_max
         else:
             g = res.governing
             out = (float(res.columns["utilization"][g]) if g is not None else 0.0, res, "")
+            lifts = [w for w in _uplift(res) if w.split(" pulls")[0] not in lifted_at_1]
+            if lam != 1.0 and lifts:
+                # a wheel or pad that would have to pull: the structure lifts off, it is not the one solved
+                out = (2.0, None, lifts[0])
         memo[lam] = out
         return out
 
+    lifted_at_1: set[str] = set()
+
     u1, res1, why1 = trial(1.0)
+    lifted_at_1.update(w.split(" pulls")[0] for w in _uplift(res1))  # warned by the run itself already
     what = ("every load" if case is None and label is None else
             (f"load case '{case}'" if label is None else
              (f"loads labelled '{label}'" + (f" in case '{case}'" if case else ""))))
@@ -1254,9 +1271,9 @@ def rate(job: Job, case: str | None = None, label: str | None = None, factor_max
     u_above, _, why_above = trial(lam * (1 + 1e-7))
     if res_b is None:  # the bracket closed from a factor the frame cannot carry
         u_below, res_b, _ = trial(lo)
-    limit = "cable" if why_above else "check"
+    limit = ("support" if why_above.startswith("roller") else "cable") if why_above else "check"
     gov = res_b.row(res_b.governing) if res_b is not None and res_b.governing is not None else {}
-    if limit == "cable":
+    if limit in ("cable", "support"):
         reasons.append(f"beyond this factor the frame cannot carry the load as modelled: {why_above}")
     if why0:
         reasons.append(f"at factor 0 the frame cannot carry the other loads as modelled ({why0}); the factor "

@@ -393,6 +393,77 @@ def test_rate_stops_where_a_cable_goes_slack(tmp_path):
     assert any("cable stay" in r for r in rt.reasons)
 
 
+ROLLER_JOB = """\
+# invented test frame: a beam on a pin and a wheel, with an overhang lifted by a labelled load
+[job]
+title = "beam on a pin and a wheel (test, invented)"
+output_units = "SI"
+[units]
+length = "mm"
+force = "kN"
+[method]
+name = "EN 1993-1-8"
+[body.beam]
+points = { A = [0, 0], M = [1000, 0], B = [2000, 0], C = [3000, 0] }
+[pin.PA]
+joins = ["beam.A"]
+diameter = 30
+hole = 32
+material = "42CrMo4+QT"
+[[pin.PA.plate]]
+member = "ground"
+thickness = 12
+material = "S355"
+width = 100
+end = 60
+[[pin.PA.plate]]
+member = "beam"
+thickness = 20
+material = "S355"
+width = 100
+end = 60
+gap = 1
+[[pin.PA.plate]]
+member = "ground"
+thickness = 12
+material = "S355"
+width = 100
+end = 60
+gap = 1
+[pin.PB]
+joins = ["beam.B"]
+[support.pin]
+at = "PA"
+kind = "pinned"
+[support.wheel]
+at = "PB"
+kind = "roller"
+normal = [0, 1]
+[case.service]
+[[load]]
+case = "service"
+at = "beam.M"
+force = ["0 kN", "-10 kN"]
+[[load]]
+case = "service"
+at = "beam.C"
+force = ["0 kN", "1 kN"]
+label = "lift"
+"""
+
+
+def test_rate_stops_where_a_roller_lifts_off(tmp_path):
+    """An invented beam on a pin at A (x = 0) and a wheel at B (x = 2 m), 10 kN down at 1 m and a labelled
+    1 kN up at the overhang end (3 m). Moments about A (hand statics): R_B = (10 × 1 − λ × 3)/2 kN, zero at
+    λ = 10/3; beyond it the wheel would have to pull, so the rating stops there."""
+    path = tmp_path / "roller.toml"
+    path.write_text(ROLLER_JOB, encoding="utf-8")
+    rt = alt.rate(load_job(str(path)), label="lift")
+    assert rt.limit == "support"
+    assert rt.factor == pytest.approx(10 / 3, rel=1e-7)
+    assert any("roller wheel" in r for r in rt.reasons)
+
+
 # ------------------------------------------------------------------------------------------------ CLI
 
 

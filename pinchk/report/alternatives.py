@@ -235,8 +235,9 @@ def rate_table(rt) -> str:
         out.append(f"largest factor: {rt.factor:.4f}  (the design as the job stands has utilization "
                    f"{rt.util_at_1:.3f}; a plain division would give {rt.linear_estimate:.4f})")
         where = f"{g.get('pin')} {g.get('part')}, {g.get('check')}, case '{g.get('case')}'"
-        if rt.limit == "cable":
-            out.append("limited by: a cable going slack just beyond this factor (see the note); the largest "
+        if rt.limit in ("cable", "support"):
+            what = "a cable going slack" if rt.limit == "cable" else "a roller lifting off"
+            out.append(f"limited by: {what} just beyond this factor (see the note); the largest "
                        f"utilization just below it is {float(g.get('utilization', math.nan)):.3f}, {where}")
         else:
             out.append(f"limited by: {where}")
