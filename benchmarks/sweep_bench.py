@@ -86,6 +86,14 @@ def main() -> None:
         print(f"prepare (solve once, record columns): {t_prep * 1e3:.1f} ms")
         print(f"compare (build columns, kernels once, reduce): {t_cmp * 1e3:.1f} ms")
         print(f"estimate for one ordinary run per alternative instead: {t_run * n_opt / len(base.pin_rows):.1f} s")
+        t0 = time.perf_counter()
+        sz = alt.size(job, base=base)
+        t_size = time.perf_counter() - t0
+        print(f"size (every pin: series search, then the exact limits by root finding): {t_size:.2f} s, "
+              f"{sum(s.option is not None for s in sz.sized.values())} of {len(sz.sized)} pins sized")
+        t0 = time.perf_counter()
+        rt = alt.rate(job, label="hook")
+        print(f"rate (hook loads, {rt.evaluations} full runs): {time.perf_counter() - t0:.2f} s, factor {rt.factor:.4f}")
 
 
 if __name__ == "__main__":

@@ -841,9 +841,17 @@ def options_from(job: Job, name: str, diameters=None, pin_materials=None, grades
                                    method=me)
                         dd = pin.diameter if d is None else d
                         _, _, why = _pin_material(pin, o, dd)
-                        if why and mm is not None and (_is_all(pin_materials) or _is_all(grades)):
+                        every = mm is not None and _is_all(pin_materials if mm[0] == "m" else grades)
+                        if why and every:
                             skipped.append(f"{o.label}: {why}")  # "all": only those that fit the size
                             continue
+                        if pm is not None and _is_all(plate_materials):
+                            bad_t = [_material(pm, t if t is not None else p.thickness) for p in pin.stack
+                                     if p.checked and p.member in mem]
+                            why_p = next((x for x in bad_t if isinstance(x, str)), "")
+                            if why_p:
+                                skipped.append(f"{o.label}: {why_p}")
+                                continue
                         out.append(o)
     return out, skipped
 
