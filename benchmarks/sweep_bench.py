@@ -93,7 +93,8 @@ def main() -> None:
               f"{sum(s.option is not None for s in sz.sized.values())} of {len(sz.sized)} pins sized")
         t0 = time.perf_counter()
         rt = alt.rate(job, label="hook")
-        print(f"rate (hook loads, {rt.evaluations} full runs): {time.perf_counter() - t0:.2f} s, factor {rt.factor:.4f}")
+        t_rate = time.perf_counter() - t0
+        print(f"rate (hook loads, {rt.evaluations} full runs): {t_rate:.2f} s, factor {rt.factor:.4f}")
 
 
 if __name__ == "__main__":
