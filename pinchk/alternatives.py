@@ -236,6 +236,7 @@ def material_names() -> list[str]:
     return list(library())
 
 
+@lru_cache(maxsize=1024)
 def _from_library(m: Material | None) -> bool:
     return m is not None and m.name in library() and any(r.source == m.source for r in library()[m.name])
 
@@ -403,7 +404,7 @@ def _stack_ratios(base: Base, name: str, thick: dict[str, float], cache: dict):
     return out
 
 
-def _build(base: Base, name: str, options: list[Option], method: str, fac: dict):
+def _build(base: Base, name: str, options: list[Option], method: str, fac: dict, plates_only: bool = False):
     """Columns of pin ``name`` for every option: (P, Q, reasons, geometry, strengths)."""
     pin = base.job.pins[name]
     nc, na = base.nc, len(options)
@@ -449,7 +450,9 @@ def _build(base: Base, name: str, options: list[Option], method: str, fac: dict)
         if o.thickness or o.plate_material or o.geometry:
             why = _plates_of_option(o, members, plate_of, t_part[i], fy_part[i], fu_part[i], E_part[i],
                                     geo_given[i], why)
-        if o.thickness:
+        if o.thickness and not plates_only:
+            # (plates scale in proportion within a member, so their shares and forces stay; the pin's moment
+            # follows the stack)
             thick = dict(o.thickness)
             r = _stack_ratios(base, name, thick, stack_cache)
             if r is not None:
@@ -601,8 +604,11 @@ def _utils(checks, n, kinds=None):
     return names, (np.array(rows) if rows else np.full((0, n), -np.inf))
 
 
-def evaluate(base: Base, requests: dict[str, list[Option]]) -> dict[str, PinSweep]:
-    """Evaluate every option of every pin in ``requests`` (pin -> options), one kernel call per method."""
+def evaluate(base: Base, requests: dict[str, list[Option]], plates_only: bool = False) -> dict[str, PinSweep]:
+    """Evaluate every option of every pin in ``requests`` (pin -> options), one kernel call per method.
+
+    ``plates_only`` leaves out the pin checks (and the stack solves they need): for searches on plates.
+    """
     job = base.job
     by_method: dict[str, list[tuple[str, int]]] = {}
     for name, opts in requests.items():
@@ -632,14 +638,16 @@ def evaluate(base: Base, requests: dict[str, list[Option]]) -> dict[str, PinSwee
             groups.setdefault(name, []).append(i)
         Ps, Qs, meta = [], [], []
         for name, ix in groups.items():
-            P, Q, reasons, geo, strengths = _build(base, name, [requests[name][i] for i in ix], method, fac)
+            P, Q, reasons, geo, strengths = _build(base, name, [requests[name][i] for i in ix], method, fac,
+                                                   plates_only)
             Ps.append(P)
             Qs.append(Q)
             meta.append((name, np.array(ix), reasons, geo, strengths))
         Pa = {k: np.concatenate([p[k] for p in Ps]) for k in Ps[0]} if Ps and Ps[0] else {}
         qk = [q for q in Qs if q]
         Qa = {k: np.concatenate([q[k] for q in qk]) for k in qk[0]} if qk else {}
-        pn, pu = _utils(mod.pin_checks(Pa, fac, variant), len(Pa["d"]), kinds) if Pa else ([], np.zeros((0, 0)))
+        pn, pu = (_utils(mod.pin_checks(Pa, fac, variant), len(Pa["d"]), kinds) if Pa and not plates_only
+                  else ([], np.zeros((0, sum(len(p["d"]) for p in Ps) if Ps and Ps[0] else 0))))
         qn, qu = _utils(mod.plate_checks(Qa, fac, variant), len(Qa["d"]), kinds) if Qa else ([], np.zeros((0, 0)))
         allc = pn + qn
         cix = []
@@ -993,7 +1001,7 @@ def _size_one(base: Base, name: str, D, T, step) -> Sized:
     if T is not None:
         grid = [Option("", diameter=d, thickness=tuple((m, t) for m in mem), detail=True, round_to=step)
                 for d in D for t in T]
-        sw = evaluate(base, {name: grid})[name]
+        sw = evaluate(base, {name: grid}, plates_only=True)[name]
         tmin = {}
         for m in mem:
             ok = (_plate_ok(sw, base, name, m) <= 1.0).reshape(len(D), len(T))
@@ -1052,7 +1060,7 @@ def _size_one(base: Base, name: str, D, T, step) -> Sized:
             def u_t(ts, m=m):
                 o = [replace(opt, thickness=tuple((k, (float(t) if k == m else v)) for k, v in th0.items()),
                              round_to=None) for t in ts]
-                s = evaluate(base, {name: o})[name]
+                s = evaluate(base, {name: o}, plates_only=True)[name]
                 cols = [1 + j for j, mm in enumerate(base.part_member[name]) if mm == m]
                 return s.util_without(DERIVED.get(base.job.method.name, ()), cols), s
             hi = th0[m]
