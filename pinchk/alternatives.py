@@ -849,6 +849,7 @@ def options_from(job: Job, name: str, diameters=None, pin_materials=None, grades
                                    method=me)
                         dd = pin.diameter if d is None else d
                         _, _, why = _pin_material(pin, o, dd)
+                        why = why or _bolt_at(pin, o, dd)[1]
                         every = mm is not None and _is_all(pin_materials if mm[0] == "m" else grades)
                         if why and every:
                             skipped.append(f"{o.label}: {why}")  # "all": only those that fit the size
