@@ -992,6 +992,10 @@ def size(job: Job, pins: list[str] | None = None, pin_series: str | None = None,
              "every plate of a member at the pin takes one thickness; a hole keeps its clearance over the pin",
              "the thinnest plate that passes may need a wide lug (an edge-distance rule such as EN 1993-1-8 Table 3.9 "
              "type A grows as 1/t): hold the plates with --only pin, or weigh thicknesses with compare --thickness"]
+    fixed = sorted({m.name for n in names for m in [job.pins[n].material] + [p.material for p in job.pins[n].stack]
+                    if m is not None and not _from_library(m)})
+    if fixed:
+        notes.append(f"not from data/materials.csv, so taken with the same strengths at every size: {', '.join(fixed)}")
     return Sizing(job, method, dser, tser, tuple(what), out, tuple(notes))
 
 

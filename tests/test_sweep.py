@@ -483,6 +483,22 @@ def test_cli_compare_json_and_csv(tmp_path, capsys):
     assert lines[0].startswith("pin,alternative") and len(lines) == 2
 
 
+def test_size_not_found_exits_1(capsys):
+    """The spreader's hook pin needs 40 mm; the inch clevis-pin series stops at 1 in (25.4 mm)."""
+    assert main(["size", SPREADER, "--pin", "P_top", "--pin-series", "inch"]) == 1
+    out = capsys.readouterr().out
+    assert "no size in the series passes" in out and "NOT FOUND" in out
+
+
+def test_rate_of_a_forces_file_job_scales_its_cases():
+    """The padeye job reads its joint forces from a file: every case scaled, the limit found on them."""
+    job = load_job(os.path.join(EX, "padeye_forces.toml"))
+    rt = alt.rate(job)
+    res = run(alt._scaled_job(job, rt.factor * (1 - 1e-6), None, None))
+    assert res.passed
+    assert not run(alt._scaled_job(job, rt.factor * (1 + 1e-6), None, None)).passed
+
+
 def test_cli_size_and_rate_json(capsys):
     assert main(["size", SPREADER, "--pin", "P_top", "--format", "json"]) == 0
     d = json.loads(capsys.readouterr().out)
