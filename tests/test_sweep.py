@@ -483,6 +483,43 @@ def test_cli_compare_json_and_csv(tmp_path, capsys):
     assert lines[0].startswith("pin,alternative") and len(lines) == 2
 
 
+def test_size_detailing_aisc_d5_2():
+    """AISC 360-16 §D5.1(a)/§D5.2 for the sized plates of the (US units) jib bracket: be = 2t + 0.63 in
+    (the module uses the smaller SI form, 16 mm), end a + d0/2 with a = 1.33 be, width w = 2 be + d0, rounded
+    up to 1/16 in."""
+    job = load_job(os.path.join(EX, "jib_bracket_aisc.toml"))
+    sz = alt.size(job)
+    step = 0.0254 / 16
+    for n, s in sz.sized.items():
+        d = s.option.diameter
+        for part, (t, end, width) in s.geometry.items():
+            plate = next(p for p in job.pins[n].stack if p.checked and part.startswith(p.member))
+            d0 = plate.hole + d - job.pins[n].diameter
+            be = 2 * t + 0.016
+            assert end == pytest.approx(math.ceil((1.33 * be + d0 / 2) * (1 + 1e-7) / step - 1e-9) * step, rel=1e-12)
+            assert width == pytest.approx(math.ceil((2 * be + d0) * (1 + 1e-7) / step - 1e-9) * step, rel=1e-12)
+    assert run(alt.sized_job(job, sz)).passed
+
+
+def test_size_detailing_en_table_3_9():
+    """EN 1993-1-8 Table 3.9 type A for the sized plates of the gantry: end = F γM0/(2 t fy) + 2 d0/3 + d0/2,
+    width = 2 (F γM0/(2 t fy) + d0/3) + d0, with F the largest force on the plate (the sized job's bearing
+    rows), rounded up to 1 mm; fy of S355 at the thickness (EN 10025-2: 355 MPa to 16 mm, 345 to 40 mm)."""
+    job = load_job(GANTRY)
+    sz = alt.size(job, pins=["PL"])
+    s = sz.sized["PL"]
+    res = run(alt.sized_job(job, sz))
+    for part, (t, end, width) in s.geometry.items():
+        rows = [i for i in range(len(res)) if res.columns["pin"][i] == "PL" and res.columns["part"][i] == part
+                and res.columns["check"][i] == "bearing"]
+        F = float(res.columns["demand"][rows].max())
+        fy = 355e6 if t <= 0.016 else 345e6
+        d0 = 0.032 + s.option.diameter - 0.030
+        base = F * 1.00 / (2 * t * fy)
+        assert end == pytest.approx(math.ceil((base + 2 * d0 / 3 + d0 / 2) * (1 + 1e-7) / 1e-3 - 1e-9) * 1e-3)
+        assert width == pytest.approx(math.ceil((2 * (base + d0 / 3) + d0) * (1 + 1e-7) / 1e-3 - 1e-9) * 1e-3)
+
+
 def test_size_not_found_exits_1(capsys):
     """The spreader's hook pin needs 40 mm; the inch clevis-pin series stops at 1 in (25.4 mm)."""
     assert main(["size", SPREADER, "--pin", "P_top", "--pin-series", "inch"]) == 1
