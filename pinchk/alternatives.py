@@ -1181,7 +1181,7 @@ class Rating:
     governing: dict[str, object]  # pin, part, check, case, utilization just below the limit
     util_at_1: float  # the largest utilization as the job stands
     linear_estimate: float  # 1 / util_at_1, what a plain division would give
-    loads: tuple[tuple[str, str, float], ...]  # (case, label, |F| [N] at the limit) of the scaled loads
+    loads: tuple[tuple[str, str, float, bool], ...]  # (case, label, |F| [N] at the limit, straight down)
     reasons: tuple[str, ...]  # why the limit is not a plain division, where it is not
     evaluations: int
     notes: tuple[str, ...] = ()
@@ -1320,6 +1320,6 @@ def rate(job: Job, case: str | None = None, label: str | None = None, factor_max
     if abs(lam - lin) <= 1e-6 * max(lam, 1.0):
         reasons.append("the limit here equals a plain division (1 / utilization): the limiting check is "
                        "proportional to the load")
-    scaled = tuple((ld.case, ld.label, float(math.hypot(*ld.force)) * lam) for ld in job.loads
-                   if (case is None or ld.case == case) and (label is None or ld.label == label))
+    scaled = tuple((ld.case, ld.label, float(math.hypot(*ld.force)) * lam, ld.force[0] == 0.0 and ld.force[1] < 0)
+                   for ld in job.loads if (case is None or ld.case == case) and (label is None or ld.label == label))
     return Rating(job, what, float(lam), limit, gov, u1, lin, scaled, tuple(reasons), count[0])

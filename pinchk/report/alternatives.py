@@ -10,7 +10,7 @@ import math
 from tabulate import tabulate
 
 from .. import __version__
-from ..units import UNIT_SYSTEMS, from_si, unit_label
+from ..units import G0, UNIT_SYSTEMS, from_si, unit_label
 from . import CAUTION
 from .common import fmt
 
@@ -212,12 +212,15 @@ def size_csv(sz) -> str:
 
 def rate_dict(rt) -> dict:
     _, fu = _units(rt.job)
+    mu = UNIT_SYSTEMS[rt.job.output_units]["mass"]
     g = {k: (float(v) if hasattr(v, "__float__") and not isinstance(v, str) else v)
          for k, v in rt.governing.items() if k in ("pin", "part", "check", "case", "utilization", "clause")}
     return {"scaled": rt.what, "factor": _num(rt.factor), "limit": rt.limit, "governing": g,
             "utilization_as_job": _num(rt.util_at_1), "plain_division": _num(rt.linear_estimate),
             "loads_at_limit": [{"case": c, "label": lb, "magnitude": float(from_si(f, "force", fu)),
-                                "unit": unit_label(fu)} for c, lb, f in rt.loads],
+                                "unit": unit_label(fu),
+                                "as_mass": float(from_si(f / G0, "mass", mu)) if down else None,
+                                "mass_unit": unit_label(mu)} for c, lb, f, down in rt.loads],
             "why_not_a_division": list(rt.reasons), "runs": rt.evaluations}
 
 
@@ -242,10 +245,14 @@ def rate_table(rt) -> str:
         else:
             out.append(f"limited by: {where}")
         if rt.loads:
-            rows = [(c, lb or "-", fmt(from_si(f, "force", fu))) for c, lb, f in rt.loads]
+            mu = UNIT_SYSTEMS[rt.job.output_units]["mass"]
+            rows = [(c, lb or "-", fmt(from_si(f, "force", fu)), fmt(from_si(f / G0, "mass", mu)) if down else "-")
+                    for c, lb, f, down in rt.loads]
             out.append("")
-            out.append("Scaled loads at the limit")
-            out.append(tabulate(rows, headers=["case", "load", f"|F| [{unit_label(fu)}]"], disable_numparse=True))
+            out.append("Scaled loads at the limit (a load straight down also as the mass whose weight it is, "
+                       "standard gravity)")
+            out.append(tabulate(rows, headers=["case", "load", f"|F| [{unit_label(fu)}]",
+                                               f"as a mass [{unit_label(mu)}]"], disable_numparse=True))
     out.append("")
     out += [f"note: {x}" for x in rt.reasons]
     out.append(f"note: limit solved by root finding on the largest utilization of {rt.evaluations} full runs "
