@@ -628,11 +628,12 @@ def evaluate(base: Base, requests: dict[str, list[Option]], plates_only: bool = 
     nc = base.nc
     kinds: dict[str, str] = {}
     names_all: list[str] = []
-    for method, items in by_method.items():
+    for method_key, items in by_method.items():
+        method, _, var = method_key.partition(":")
         mod = METHODS[method]
         same = method == job.method.name
         fac = factors_for(mod, job.method.factors if same else {})
-        variant = job.method.variant if same else (mod.VARIANTS[0] if mod.VARIANTS else None)
+        variant = var or (job.method.variant if same else (mod.VARIANTS[0] if mod.VARIANTS else None))
         groups: dict[str, list[int]] = {}
         for name, i in items:
             groups.setdefault(name, []).append(i)
@@ -875,6 +876,24 @@ class Every(list):
     every = True
 
 
+def method_names(job: Job | None = None) -> list[str]:
+    """Every method, with each of its variants as "name:variant" ("AISC 360-16:LRFD", "ASME BTH-1:B")."""
+    out = []
+    for name, mod in METHODS.items():
+        out += [f"{name}:{v}" for v in mod.VARIANTS] if mod.VARIANTS else [name]
+    return out
+
+
+def method_key(text: str) -> str | None:
+    """A method as --method names it ("AISC 360-16", "AISC 360-16:LRFD"), checked; None if unknown."""
+    name, _, var = text.partition(":")
+    if name not in METHODS:
+        return None
+    if var and var not in METHODS[name].VARIANTS:
+        return None
+    return text
+
+
 def compare(job: Job, pins: list[str] | None = None, base: Base | None = None, **alternatives) -> Comparison:
     """Evaluate the alternatives (see ``options_from``) for each pin; mark the lightest passing one."""
     base = base or prepare(job)
@@ -903,7 +922,8 @@ def compare(job: Job, pins: list[str] | None = None, base: Base | None = None, *
         notes.append("every method is given the same joint forces, from the job's loads as they stand; each method "
                      "expects loads combined with its own load factors (EN 1990 and AISC LRFD factored, AISC ASD and "
                      "BTH-1 unfactored): combine them for each method before comparing utilizations")
-        notes.append("a method other than the job's uses its default factors")
+        notes.append("a method other than the job's uses its default factors (and its first design variant unless "
+                     "one is named, e.g. 'AISC 360-16:LRFD', 'ASME BTH-1:B')")
     if not only_methods:
         notes.append("marked: the lightest option that passes (smallest pin diameter, then thinnest plates), then the "
                      "lowest pin strength, then the lowest plate strength; one per method where methods are compared")
@@ -1111,7 +1131,7 @@ def diameter_limit(base: Base, name: str, option: Option, check: str | None = No
     """
     d0 = base.job.pins[name].diameter if option.diameter is None else option.diameter
 
-    skip = DERIVED.get(option.method or base.job.method.name, ()) if option.detail else ()
+    skip = DERIVED.get((option.method or base.job.method.name).partition(":")[0], ()) if option.detail else ()
 
     def u_vec(ds):
         sw = evaluate(base, {name: [replace(option, diameter=float(d), round_to=None) for d in ds]})[name]

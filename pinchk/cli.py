@@ -63,7 +63,8 @@ def _alternative_parsers(sub) -> None:
     c.add_argument("--member", action="append", metavar="NAME",
                    help="the member whose plates --thickness and --plate-material change (repeat; default: every "
                         "member with checked plates at the pin)")
-    c.add_argument("--method", metavar="LIST", help="design methods, or 'all' (see pinchk methods)")
+    c.add_argument("--method", metavar="LIST", help="design methods, each optionally with ':variant' (e.g. "
+                   "'AISC 360-16:LRFD', 'ASME BTH-1:B'), or 'all' (every method and variant; see pinchk methods)")
 
     z = sub.add_parser("size", help="the smallest pin diameter and plate thickness of a series that pass",
                        description="For each pin, the smallest diameter of a preferred series and, for it, the "
@@ -193,6 +194,25 @@ def _names(text, every, what, job_path):
     return names
 
 
+def _methods(text):
+    """--method: names (with an optional ':variant'), or 'all' (every method and variant)."""
+    from .alternatives import method_key, method_names
+    from .errors import InputError, Problem
+    from .methods import METHODS
+
+    if text is None:
+        return None
+    if text.strip().lower() == "all":
+        return method_names()
+    names = [x.strip() for x in text.split(",") if x.strip()]
+    bad = [x for x in names if method_key(x) is None]
+    if bad:
+        raise InputError(Problem("<command line>", "", "--method", f"unknown: {', '.join(bad)}; known: "
+                                 f"{', '.join(METHODS)}, each optionally with ':variant' "
+                                 f"({', '.join(method_names())})"))
+    return names
+
+
 def _emit(a, kind, result, ok: bool, protect: list[str], verdict: str) -> int:
     from .report.alternatives import VIEWS
 
@@ -212,7 +232,6 @@ def _protect(job) -> list[str]:
 def _cmd_compare(a) -> int:
     from . import alternatives as alt
     from . import load_job
-    from .methods import METHODS
     from .units import UNIT_SYSTEMS
 
     job = load_job(a.job)
@@ -223,7 +242,7 @@ def _cmd_compare(a) -> int:
         "grades": _names(a.grade, alt.bolt_grade_names(), "--grade", a.job),
         "thicknesses": alt.parse_lengths(a.thickness, lu, "--thickness") if a.thickness else None,
         "plate_materials": _names(a.plate_material, alt.material_names(), "--plate-material", a.job),
-        "methods": _names(a.method, list(METHODS), "--method", a.job),
+        "methods": _methods(a.method),
         "members": a.member,
     }
     cmp = alt.compare(job, pins=a.pin, **kw)

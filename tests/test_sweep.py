@@ -180,6 +180,16 @@ def test_grade_4_6_interaction_by_hand(gantry):
     assert cmp.marked["PL"] == ()  # it fails, and it is the only option
 
 
+def test_method_variants_agree_with_the_ordinary_path(gantry):
+    """'AISC 360-16:LRFD' and 'ASME BTH-1:B' are those methods with that variant (default factors)."""
+    base = alt.prepare(gantry)
+    opts = [alt.Option("l", method="AISC 360-16:LRFD"), alt.Option("b", method="ASME BTH-1:B")]
+    sw = alt.evaluate(base, {"PL": opts})["PL"]
+    for i, (name, var) in enumerate((("AISC 360-16", "LRFD"), ("ASME BTH-1", "B"))):
+        job2 = replace(gantry, method=replace(gantry.method, name=name, variant=var, factors={}))
+        assert sw.util[i] == pytest.approx(_pin_max(run(job2), "PL"), rel=1e-12)
+
+
 def test_method_comparison_is_not_ranked(gantry):
     cmp = alt.compare(gantry, pins=["PL"], methods=["EN 1993-1-8", "AISC 360-16", "ASME BTH-1"])
     assert [o.method for o in cmp.sweeps["PL"].options] == ["EN 1993-1-8", "AISC 360-16", "ASME BTH-1"]
@@ -559,6 +569,7 @@ def test_cli_size_and_rate(tmp_path, capsys):
 
 @pytest.mark.parametrize("argv,word", [
     (["compare", GANTRY, "--grade", "9.9"], "--grade"),
+    (["compare", GANTRY, "--method", "AISC 360-16:XX"], "--method"),
     (["compare", GANTRY, "--pin", "nope"], "--pin"),
     (["compare", GANTRY, "--diameter", "abc"], "--diameter"),
     (["compare", GANTRY, "--diameter", "-3 mm"], "--diameter"),
