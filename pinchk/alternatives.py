@@ -894,6 +894,14 @@ def method_key(text: str) -> str | None:
     return text
 
 
+def _left_out_note(job: Job, names) -> list[str]:
+    if any(getattr(p, "bushing", None) is not None or getattr(p, "lateral", None) is not None
+           for n in names for p in job.pins[n].stack) or any(getattr(job.pins[n], "retainer", None) for n in names):
+        return ["a bushing's own checks (the pin on its bore), a lug base under a lateral load and a pin retainer "
+                "are not part of a sweep: check the chosen design with pinchk run"]
+    return []
+
+
 def compare(job: Job, pins: list[str] | None = None, base: Base | None = None, **alternatives) -> Comparison:
     """Evaluate the alternatives (see ``options_from``) for each pin; mark the lightest passing one."""
     base = base or prepare(job)
@@ -929,10 +937,7 @@ def compare(job: Job, pins: list[str] | None = None, base: Base | None = None, *
                      "lowest pin strength, then the lowest plate strength; one per method where methods are compared")
     notes.append("a pin diameter other than the job's keeps each plate's outline (the hole grows or shrinks in it) "
                  "and each hole's clearance; a pin or plate material from the library is taken at the new size")
-    if any(getattr(p, "bushing", None) is not None or getattr(p, "lateral", None) is not None
-           for n in names for p in job.pins[n].stack):
-        notes.append("a bushing's own checks (the pin on its bore), a lug base under a lateral load and a pin "
-                     "retainer are not part of the comparison: check the chosen design with pinchk run")
+    notes += _left_out_note(job, names)
     return Comparison(job, base.job.method.name, sweeps, marked, not only_methods, tuple(notes), skipped)
 
 
@@ -1012,6 +1017,7 @@ def size(job: Job, pins: list[str] | None = None, pin_series: str | None = None,
              "every plate of a member at the pin takes one thickness; a hole keeps its clearance over the pin",
              "the thinnest plate that passes may need a wide lug (an edge-distance rule such as EN 1993-1-8 Table 3.9 "
              "type A grows as 1/t): hold the plates with --only pin, or weigh thicknesses with compare --thickness"]
+    notes += _left_out_note(job, names)
     fixed = sorted({m.name for n in names for m in [job.pins[n].material] + [p.material for p in job.pins[n].stack]
                     if m is not None and not _from_library(m)})
     if fixed:
@@ -1331,6 +1337,12 @@ def rate(job: Job, case: str | None = None, label: str | None = None, factor_max
                            "(a part that does not depend on the load)")
         if kind == "stress" and "contact" in chk:
             reasons.append("the limiting check (contact stress) grows with the square root of the load")
+    if gov and res1 is not None and res1.governing is not None:
+        g1 = res1.row(res1.governing)
+        if (g1["pin"], g1["part"], g1["check"]) != (gov.get("pin"), gov.get("part"), gov.get("check")):
+            reasons.append(f"as the job stands the governing check is {g1['pin']} {g1['part']}, {g1['check']} "
+                           f"(utilization {g1['utilization']:.3f}); it grows less than in proportion to the load, or "
+                           "not at all (a rule of geometry alone), so another check limits the factor")
     if case is not None or label is not None:
         reasons.append("only some loads are scaled: the forces they add combine with the others, so a check's "
                        "utilization is not proportional to the factor")
