@@ -1083,7 +1083,8 @@ def _size_one(base: Base, name: str, D, T, step) -> Sized:
         d_exact = diameter_limit(base, name, opt, lo=D[gi - 1] if gi > 0 else None)
         if d_exact is not None:
             s = evaluate(base, {name: [replace(opt, diameter=d_exact * (1 - 1e-5), round_to=None)]})[name]
-            d_check = s.check[0]  # the check that fails a hair below
+            # the check that fails a hair below, or the end of a material's size range
+            d_check = s.check[0] if not s.reason[0] else f"size range ({s.reason[0]})"
     t_exact, t_check = {}, {}
     if T is not None:
         th0 = dict(opt.thickness)
@@ -1102,7 +1103,7 @@ def _size_one(base: Base, name: str, D, T, step) -> Sized:
                     s = u_t([t_exact[m] * (1 - 1e-5)])[1]
                     cols = [1 + j for j, mm in enumerate(base.part_member[name]) if mm == m]
                     j = max(cols, key=lambda c: s.part_util[0, c])
-                    t_check[m] = s.part_check(0, j)
+                    t_check[m] = s.part_check(0, j) if not s.reason[0] else f"size range ({s.reason[0]})"
             except ValueError:
                 pass
     return Sized(name, opt, float(sw2.util[chosen]), (sw2.check[chosen], sw2.part[chosen], sw2.case[chosen]),
