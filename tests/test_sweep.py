@@ -583,6 +583,15 @@ def test_cli_input_errors(argv, word, capsys):
     assert word in err and "Traceback" not in err
 
 
+def test_cli_compare_with_every_alternative_left_out_exits_1(capsys):
+    """Bare sizes are in the job's length unit: inches for the US-units jib bracket, so 20 to 40 in; no
+    bolt grade of the library covers such a size."""
+    rc = main(["compare", os.path.join(EX, "jib_bracket_aisc.toml"), "--pin", "P_root", "--diameter", "20:40:10",
+               "--grade", "all"])
+    assert rc == 1
+    assert "every one was left out" in capsys.readouterr().out
+
+
 def test_cli_refuses_to_overwrite_the_job(tmp_path, capsys):
     job = tmp_path / "j.toml"
     job.write_text(open(GANTRY, encoding="utf-8").read())

@@ -85,7 +85,9 @@ def compare_table(cmp) -> str:
                                            "strength check (if not governing)", ""], disable_numparse=True))
         for m in cmp.marked.get(n, ()):
             out.append(f"lightest passing: {sw.options[m].label} (utilization {sw.util[m]:.3f})")
-        if cmp.ranked and not cmp.marked.get(n):
+        if not sw.options:
+            out.append("no alternative left to check: every one was left out (below)")
+        elif cmp.ranked and not cmp.marked.get(n):
             out.append("no alternative passes")
         if cmp.skipped.get(n):
             out.append(f"left out ({len(cmp.skipped[n])}): " + "; ".join(cmp.skipped[n][:6])
