@@ -913,8 +913,9 @@ def compare(job: Job, pins: list[str] | None = None, base: Base | None = None, *
                                      + ", ".join(base.pin_rows)))
         req[n], skipped[n] = options_from(job, n, **alternatives)
     sweeps = evaluate(base, req)
-    only_methods = any(req.values()) and all(o.method is not None and o.diameter is None and o.pin_material is None and o.grade is None
-                       and not o.thickness and not o.plate_material for opts in req.values() for o in opts)
+    only_methods = any(req.values()) and all(
+        o.method is not None and o.diameter is None and o.pin_material is None and o.grade is None
+        and not o.thickness and not o.plate_material for opts in req.values() for o in opts)
     marked = {}
     for n, sw in sweeps.items():
         ok = np.flatnonzero(sw.passed)
