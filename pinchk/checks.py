@@ -10,14 +10,14 @@ import numpy.typing as npt
 from . import bolts, joint
 from .combine import row_factors
 from .frame import FrameSolution
-from .methods import METHODS, Check, factors_for, make_check
+from .methods import METHODS, Check, factors_for, make_check, term
 from .methods.lug_base import BASE_CHECKS
 from .model import Job
 from .stack import StackResult, solve_stack
 from .sweep import lug_sweeps
 
 COLUMNS = ("pin", "part", "check", "case", "demand", "capacity", "kind", "utilization", "status", "clause",
-           "formula", "factors", "note")
+           "formula", "factors", "note", "worked_demand", "worked_capacity", "terms")
 
 
 @dataclass(frozen=True)
@@ -215,6 +215,11 @@ def run_checks(job: Job, sol: FrameSolution, module=None) -> Results:
                 cols["note"] += [ch.note] * k
             else:
                 cols["note"] += ["; ".join(x for x in (ch.note, notes[i]) if x) for i in np.flatnonzero(mask)]
+            cols["worked_demand"] += [ch.worked[0]] * k
+            cols["worked_capacity"] += [ch.worked[1]] * k
+            # the formula's named inputs, row by row: ((symbol, kind, SI value), ...)
+            vals = [(sym, kd, np.broadcast_to(np.asarray(v, float), mask.shape)[mask]) for sym, kd, v in ch.terms]
+            cols["terms"] += [tuple((sym, kd, float(a[r])) for sym, kd, a in vals) for r in range(k)]
 
     if pin_lab:
         Pa = {k: np.concatenate(v) for k, v in P.items()}
@@ -234,13 +239,18 @@ def run_checks(job: Job, sol: FrameSolution, module=None) -> Results:
         emit([make_check("pin axial force (retainer)", "retainer capacity as given in the job: "
                          "axial force ≤ retainer capacity", "force",
                          np.concatenate([pin_axial[n] for n, _ in ret]), np.repeat([r for _, r in ret], nc), "",
-                         None, "every lateral load on the pin's lugs taken through the pin to its retainer")],
+                         None, "every lateral load on the pin's lugs taken through the pin to its retainer",
+                         terms=(term("P", "force", np.concatenate([pin_axial[n] for n, _ in ret])),
+                                term("Rret", "force", np.repeat([r for _, r in ret], nc))),
+                         worked=("ΣH = {P}", "Rret = {Rret}"))],
              [(n, "pin retainer") for n, _ in ret], np.full(len(ret) * nc, "", dtype=object))
 
     columns: dict[str, object] = {}
     for k in COLUMNS:
         if k in ("demand", "capacity", "utilization"):
             columns[k] = np.concatenate(cols[k]) if cols[k] else np.zeros(0)
+        elif k == "terms":
+            columns[k] = tuple(cols[k])
         else:
             columns[k] = tuple(str(x) for x in cols[k])
 

@@ -26,8 +26,10 @@ def _parser() -> argparse.ArgumentParser:
     r = sub.add_parser("run", help="solve a job file and check every pin and plate",
                        description="Solve a job file's frame, check every pin and plate, and print the results.")
     r.add_argument("job", metavar="JOB", help="the job file (TOML), see docs/jobfile.md")
-    r.add_argument("--format", choices=["table", "json", "csv"], default="table",
-                   help="view of the results (default: table)")
+    r.add_argument("--format", choices=["table", "json", "csv", "md", "html"], default="table",
+                   help="view of the results (default: table); md and html give the calculation report, "
+                        "html as one file with its pictures inline, md with its pictures as PNG files beside "
+                        "the --output file")
     r.add_argument("--output", metavar="PATH", help="write the view to PATH instead of the terminal")
     r.add_argument("--all-cases", action="store_true",
                    help="table: list every load case of every check, not only the governing one")
@@ -126,8 +128,9 @@ def _cmd_run(a) -> int:
             raise InputError(Problem(a.forces_out, "", "--forces-out", "is the same file as --output; name two files"))
     results = run(a.job)
     opts = {"all_cases": a.all_cases, "forces": not a.no_forces} if a.format == "table" else {}
-    text = render(results, a.format, **opts)
     protect = [a.job] + ([results.job.forces.path] if results.job.forces is not None else [])
+    report_file = a.output and a.format in ("md", "html")  # the calculation report, written with its pictures
+    text = None if report_file else render(results, a.format, **opts)
     if a.forces_out:
         from .forcesfile import render_forces
         from .units import UNIT_SYSTEMS
@@ -137,8 +140,16 @@ def _cmd_run(a) -> int:
         _write(a.forces_out, render_forces(per_case, format_of(a.forces_out),
                                            UNIT_SYSTEMS[results.job.output_units]["force"], results.job.title),
                protect + ([a.output] if a.output else []))
-    if a.output:
+    if report_file:
+        from .progress import Progress
+        from .report import write_report
+
+        with Progress(what="pictures") as bar:
+            write_report(results, a.format, a.output, protect=protect + ([a.forces_out] if a.forces_out else []),
+                         progress=bar)
+    elif a.output:
         _write(a.output, text, protect + ([a.forces_out] if a.forces_out else []))
+    if a.output:
         from .report.common import verdict
 
         print(f"{verdict(results)}\nwrote {a.output}\ncaution: {CAUTION_SHORT}")

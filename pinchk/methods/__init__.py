@@ -10,6 +10,22 @@ grade (its grade name, "" for a pin), As (thread stress area), V_shank and V_thr
 a plane through the shank / through the thread; 0 where there is none), shank_planes and thread_planes
 (some plane cuts the shank / the thread), secured, rot. Plate columns
 add fup (pin ultimate strength) and stiffened (against dishing).
+
+So that a report can show each row worked out ("Fb,Rd = 1.5 × 20 mm × 60 mm × 355 MPa / 1 = 639 kN"), a
+check may also carry ``terms``, the named input columns of its formula, and ``worked``, the demand and
+capacity as expressions in those names::
+
+    make_check("bearing", "EN 1993-1-8 Table 3.10: Fb,Rd = 1.5 t d fy / γM0", "force", F, Fb_Rd, "γM0 = 1",
+               terms=(term("FEd", "force", F), term("t", "length", t), term("d", "length", d),
+                      term("fy", "stress", fy), term("γM0", "ratio", g0)),
+               worked=("FEd = {FEd}", "Fb,Rd = 1.5 × {t} × {d} × {fy} / {γM0}"))
+
+A term is (symbol, kind, values): the symbol as printed, the kind of figure (as ``Check.kind``) and the
+SI values, one per row or a scalar. ``{symbol}`` in an expression is replaced by that row's value in the
+output units, and the report appends "= result". Write the arithmetic out (×, /, +, −, √(…), π, min(…),
+(…)², (…)³): tests/test_calc_report.py evaluates every expression and requires the check's own demand and
+capacity from it. Both are optional: a check without them is reported with its formula, demand and
+capacity only. A new method only has to follow this pattern (docs/report.md).
 """
 
 from __future__ import annotations
@@ -40,14 +56,21 @@ class Check:
     mask: npt.NDArray[np.bool_] | None = None
     note: str = ""
     uses_forces: bool = True  # False for a detailing rule the forces do not enter (no load factors apply)
+    terms: tuple[tuple[str, str, object], ...] = ()  # (symbol, kind, SI values or a scalar)
+    worked: tuple[str, str] = ("", "")  # demand and capacity as expressions in {symbol}s
+
+
+def term(symbol: str, kind: str, values) -> tuple[str, str, object]:
+    """One named input of a check's formula: (symbol as printed, kind of figure, SI values or a scalar)."""
+    return (symbol, kind, values)
 
 
 def make_check(name, clause_formula, kind, demand, capacity, factors, mask=None, note="",
-               uses_forces=True) -> Check:
+               uses_forces=True, terms=(), worked=("", "")) -> Check:
     """A Check from "clause: formula" text and array-likes (the form the method modules write)."""
     clause, _, formula = clause_formula.partition(": ")
     return Check(name, clause, formula, kind, np.asarray(demand, float), np.asarray(capacity, float),
-                 factors, mask, note, uses_forces)
+                 factors, mask, note, uses_forces, tuple(terms), tuple(worked))
 
 
 METHODS = {

@@ -66,6 +66,19 @@ def _check(*args, **kw):
     return make_check(*args, **kw)
 
 
+def term(symbol, kind, values):
+    from . import term as _term
+
+    return _term(symbol, kind, values)
+
+
+def _avail(f, key, variant, lhs, expr):
+    """The available strength as a worked expression, with the φ or Ω term it uses."""
+    if variant == "LRFD":
+        return f"φ{lhs} = {{φ}} × {expr}", term("φ", "ratio", f["phi_" + key])
+    return f"{lhs}/Ω = {expr} / {{Ω}}", term("Ω", "ratio", f["omega_" + key])
+
+
 def pin_checks(P, f, variant="ASD"):
     d = P["d"]
     A = np.pi * d**2 / 4
@@ -81,16 +94,22 @@ def pin_checks(P, f, variant="ASD"):
     fnv_n, fnv_x = fnv(P.get("grade", [""] * n), P["fup"])
     c_x, f_x = _resistance(fnv_x * A, f, "bv", variant)
     c_n, f_n = _resistance(fnv_n * A, f, "bv", variant)
+    t_d, t_fu, t_fy = term("d", "length", d), term("Fu", "stress", P["fup"]), term("Fy", "stress", P["fyp"])
+    w_v, t_v = _avail(f, "pv", variant, "Vn", "0.6 × {Fu} × π ({d})² / 4")
+    w_m, t_m = _avail(f, "pb", variant, "Mn", "min({Fy} × ({d})³ / 6, 1.6 × {Fy} × π ({d})³ / 32)")
+    w_b, t_b = _avail(f, "bv", variant, "Rn", "{Fnv} × π ({d})² / 4")
     return [
         _check("pin shear", "common practice (no AISC 360 clause): Vn = 0.6 Fu A per shear plane", "force",
-               P["V"], Vc, fv, ~bolt),
+               P["V"], Vc, fv, ~bolt, terms=(term("V", "force", P["V"]), t_d, t_fu, t_v), worked=("V = {V}", w_v)),
         _check("bolt shear (shank)", "AISC 360-16 §J3.6, Table J3.2: Rn = Fnv Ab, Fnv threads excluded (X)",
-               "force", V_sh, c_x, f_x, bolt & shank),
+               "force", V_sh, c_x, f_x, bolt & shank,
+               terms=(term("V", "force", V_sh), term("Fnv", "stress", fnv_x), t_d, t_b), worked=("V = {V}", w_b)),
         _check("bolt shear (thread)", "AISC 360-16 §J3.6, Table J3.2: Rn = Fnv Ab, Fnv threads included (N)",
                "force", V_th, c_n, f_n, bolt & thread,
-               "a thread lies in this shear plane: rigging practice warns against it"),
+               "a thread lies in this shear plane: rigging practice warns against it",
+               terms=(term("V", "force", V_th), term("Fnv", "stress", fnv_n), t_d, t_b), worked=("V = {V}", w_b)),
         _check("pin bending", "AISC 360-16 §F11.1 (common practice for pins): Mn = Fy Z ≤ 1.6 Fy S", "moment",
-               P["M"], Mc, fb),
+               P["M"], Mc, fb, terms=(term("M", "moment", P["M"]), t_d, t_fy, t_m), worked=("M = {M}", w_m)),
     ]
 
 
@@ -107,16 +126,30 @@ def plate_checks(Q, f, variant="ASD"):
     c_sr, f_sr = _resistance(Pn_sr, f, "sr", variant)
     c_br, f_br = _resistance(Rn_br, f, "br", variant)
     c_ty, f_ty = _resistance(Pn_ty, f, "ty", variant)
+    t_P, t_t, t_d, t_d0 = (term("P", "force", F), term("t", "length", t), term("d", "length", d),
+                           term("d0", "length", d0))
+    t_fu, t_fy, t_w = term("Fu", "stress", Q["fu"]), term("Fy", "stress", Q["fy"]), term("w", "length", Q["width"])
+    t_be, t_a = term("be", "length", be), term("a", "length", a)
+    w_tr, p_tr = _avail(f, "tr", variant, "Pn", "{Fu} × 2 × {t} × {be}")
+    w_sr, p_sr = _avail(f, "sr", variant, "Pn", "0.6 × {Fu} × 2 × {t} × ({a} + {d} / 2)")
+    w_br, p_br = _avail(f, "br", variant, "Rn", "1.8 × {Fy} × {t} × {d}")
+    w_ty, p_ty = _avail(f, "ty", variant, "Pn", "{Fy} × {t} × {w}")
+    t_fyl = term("Fy", "stress", np.minimum(Q["fy"], Q["fyp"]))
     return [
         _check("tensile rupture", "AISC 360-16 §D5.1(a): Pn = Fu (2 t be), be = 2t + 16 mm ≤ edge distance",
-               "force", F, c_tr, f_tr),
+               "force", F, c_tr, f_tr, terms=(t_P, t_fu, t_t, t_be, p_tr), worked=("P = {P}", w_tr)),
         _check("shear rupture", "AISC 360-16 §D5.1(b): Pn = 0.6 Fu Asf, Asf = 2t (a + d/2)", "force", F, c_sr,
-               f_sr),
+               f_sr, terms=(t_P, t_fu, t_t, t_a, t_d, p_sr), worked=("P = {P}", w_sr)),
         _check("bearing", "AISC 360-16 §J7: Rn = 1.8 Fy Apb, Apb = t d (Fy the lower of plate and pin)",
-               "force", F, c_br, f_br),
-        _check("gross yielding", "AISC 360-16 §D5.1(d), §D2(a): Pn = Fy Ag, Ag = t w", "force", F, c_ty, f_ty),
-        _check("end distance", "AISC 360-16 §D5.2: a ≥ 1.33 be", "length", 1.33 * be, a, "", uses_forces=False),
-        _check("width", "AISC 360-16 §D5.2: w ≥ 2 be + d", "length", 2 * be + d, Q["width"], "", uses_forces=False),
+               "force", F, c_br, f_br, terms=(t_P, t_fyl, t_t, t_d, p_br), worked=("P = {P}", w_br)),
+        _check("gross yielding", "AISC 360-16 §D5.1(d), §D2(a): Pn = Fy Ag, Ag = t w", "force", F, c_ty, f_ty,
+               terms=(t_P, t_fy, t_t, t_w, p_ty), worked=("P = {P}", w_ty)),
+        _check("end distance", "AISC 360-16 §D5.2: a ≥ 1.33 be", "length", 1.33 * be, a, "", uses_forces=False,
+               terms=(t_be, t_a), worked=("1.33 × {be}", "a = {a}")),
+        _check("width", "AISC 360-16 §D5.2: w ≥ 2 be + d", "length", 2 * be + d, Q["width"], "", uses_forces=False,
+               terms=(t_be, t_d, t_w), worked=("2 × {be} + {d}", "w = {w}")),
         _check("hole clearance (rotating)", "AISC 360-16 §D5.2: d0 ≤ d + 1/32 in (1 mm) where the pin turns "
-               "under load", "length", d0 - d, np.full_like(d, ROT_CLEARANCE), "", Q["rot"], uses_forces=False),
+               "under load", "length", d0 - d, np.full_like(d, ROT_CLEARANCE), "", Q["rot"], uses_forces=False,
+               terms=(t_d0, t_d, term("1/32 in", "length", ROT_CLEARANCE)),
+               worked=("{d0} − {d}", "{1/32 in}")),
     ]

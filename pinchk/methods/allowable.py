@@ -64,6 +64,20 @@ def allowable(key, fy, fu, f):
     return np.minimum(ky * fy / ny, ku * fu / nu), text
 
 
+def term(symbol, kind, values):
+    from . import term as _term
+
+    return _term(symbol, kind, values)
+
+
+def _allow_terms(key, fy, fu, f):
+    """The allowable stress of check ``key`` as a worked expression, and its terms."""
+    ky, ny, ku, nu = (f[f"{key}_{s}"] for s in ("ky", "ny", "ku", "nu"))
+    return ("σall = min({k_y} × {fy} / {n_y}, {k_u} × {fu} / {n_u})",
+            (term("k_y", "ratio", ky), term("fy", "stress", fy), term("n_y", "ratio", ny),
+             term("k_u", "ratio", ku), term("fu", "stress", fu), term("n_u", "ratio", nu)))
+
+
 def _clause(key):
     name, _, _, what = CHECKS[key]
     return f"in-house allowable stress: {what} ≤ min(k_y fy/n_y, k_u fu/n_u)"
@@ -81,17 +95,25 @@ def pin_checks(P, f, variant=None):
     secured = P.get("secured", np.zeros(n, bool))
     tau, ft = allowable("pin_shear", P["fyp"], P["fup"], f)
     sig, fb = allowable("pin_bending", P["fyp"], P["fup"], f)
+    w_s, t_s = _allow_terms("pin_shear", P["fyp"], P["fup"], f)
+    w_b, t_b = _allow_terms("pin_bending", P["fyp"], P["fup"], f)
+    t_d = term("d", "length", d)
     return [
-        _check("pin shear", _clause("pin_shear"), "stress", P["V"] / A, tau, ft, ~bolt),
+        _check("pin shear", _clause("pin_shear"), "stress", P["V"] / A, tau, ft, ~bolt,
+               terms=(term("V", "force", P["V"]), t_d, *t_s), worked=("τ = {V} / (π × ({d})² / 4)", w_s)),
         _check("bolt shear (shank)", _clause("pin_shear") + " (shank area A)", "stress", V_sh / A, tau, ft,
-               bolt & shank),
+               bolt & shank, terms=(term("V", "force", V_sh), t_d, *t_s), worked=("τ = {V} / (π × ({d})² / 4)", w_s)),
         _check("bolt shear (thread)", _clause("pin_shear") + " (on the stress area As)", "stress", V_th / As, tau,
-               ft, bolt & thread, "a thread lies in this shear plane: rigging practice warns against it"),
-        _check("pin bending", _clause("pin_bending"), "stress", P["M"] / Wel, sig, fb),
+               ft, bolt & thread, "a thread lies in this shear plane: rigging practice warns against it",
+               terms=(term("V", "force", V_th), term("As", "area", As), *t_s), worked=("τ = {V} / {As}", w_s)),
+        _check("pin bending", _clause("pin_bending"), "stress", P["M"] / Wel, sig, fb,
+               terms=(term("M", "moment", P["M"]), t_d, *t_b), worked=("σ = {M} / (π × ({d})³ / 32)", w_b)),
         _check("pin secured", "common practice: the pin is retained against working loose (1 = not stated "
                "secured)", "ratio", np.where(secured, 0.0, 1.0), np.where(secured, 1.0, 0.0), "", None,
                "state secured = true for the pin once it is retained (cotter pin, keeper plate, nut)",
-               uses_forces=False),
+               uses_forces=False, terms=(term("s", "ratio", np.where(secured, 0.0, 1.0)),
+                                         term("c", "ratio", np.where(secured, 1.0, 0.0))),
+               worked=("not stated secured (1) or secured (0) = {s}", "limit = {c}")),
     ]
 
 
@@ -103,11 +125,25 @@ def plate_checks(Q, f, variant=None):
     s_br, f_br = allowable("bearing", fy_low, fu_low, f)
     s_nt, f_nt = allowable("net_tension", fy, fu, f)
     s_to, f_to = allowable("tear_out", fy, fu, f)
+    t_F, t_t = term("F", "force", F), term("t", "length", t)
+    t_d, t_d0 = term("d", "length", d), term("d0", "length", d0)
+    w_br, a_br = _allow_terms("bearing", fy_low, fu_low, f)
+    w_nt, a_nt = _allow_terms("net_tension", fy, fu, f)
+    w_to, a_to = _allow_terms("tear_out", fy, fu, f)
     return [
         _check("bearing", _clause("bearing") + " (fy, fu the lower of plate and pin)", "stress", F / (d * t),
-               s_br, f_br),
-        _check("net tension", _clause("net_tension"), "stress", F / (t * (Q["width"] - d0)), s_nt, f_nt),
-        _check("tear-out", _clause("tear_out"), "stress", F / (2 * t * (Q["a_end"] - d0 / 2)), s_to, f_to),
+               s_br, f_br, terms=(t_F, t_d, t_t, *a_br), worked=("σ = {F} / ({d} × {t})", w_br)),
+        # no free edge across (or ahead of) the force: the plate runs on into its body, no such failure
+        _check("net tension", _clause("net_tension"), "stress", F / (t * (Q["width"] - d0)), s_nt, f_nt,
+               np.isfinite(Q["width"]),
+               terms=(t_F, t_t, term("w", "length", Q["width"]), t_d0, *a_nt),
+               worked=("σ = {F} / ({t} × ({w} − {d0}))", w_nt)),
+        _check("tear-out", _clause("tear_out"), "stress", F / (2 * t * (Q["a_end"] - d0 / 2)), s_to, f_to,
+               np.isfinite(Q["a_end"]),
+               terms=(t_F, t_t, term("R", "length", Q["a_end"]), t_d0, *a_to),
+               worked=("τ = {F} / (2 × {t} × ({R} − {d0} / 2))", w_to)),
         _check("pin-to-hole clearance", "common practice: Dh − Dp ≤ (clearance_max − 1) Dp", "length", d0 - d,
-               (f["clearance_max"] - 1) * d, f"clearance_max = {f['clearance_max']:g}", uses_forces=False),
+               (f["clearance_max"] - 1) * d, f"clearance_max = {f['clearance_max']:g}", uses_forces=False,
+               terms=(t_d0, t_d, term("cmax", "ratio", f["clearance_max"])),
+               worked=("Dh − Dp = {d0} − {d}", "({cmax} − 1) × {d}")),
     ]

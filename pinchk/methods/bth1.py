@@ -64,6 +64,12 @@ def _check(*args, **kw):
     return make_check(*args, **kw)
 
 
+def term(symbol, kind, values):
+    from . import term as _term
+
+    return _term(symbol, kind, values)
+
+
 def design_factor(f, variant):
     """Nd of the Design Category ``variant`` ("A" or "B"; A when not given)."""
     return f["Nd_" + (variant or "A")]
@@ -131,20 +137,29 @@ def pin_checks(P, f, variant="A"):
     V_sh, V_th = P.get("V_shank", P["V"]), P.get("V_thread", np.zeros(n))
     shank, thread = P.get("shank_planes", np.ones(n, bool)), P.get("thread_planes", np.zeros(n, bool))
     secured = P.get("secured", np.zeros(n, bool))
+    t_fy, t_nd, t_d = term("Fy", "stress", P["fyp"]), term("Nd", "ratio", Nd), term("d", "length", d)
+    fv_txt = "{Fy} / ({Nd} × √(3))"
     return [
         _check("pin shear", "ASME BTH-1-2017 §3-2.2: Fv = Fy/(Nd √3) on A per shear plane" + TAG_LOW, "force",
-               P["V"], Fv * A, cat, ~bolt),
+               P["V"], Fv * A, cat, ~bolt, terms=(term("V", "force", P["V"]), t_fy, t_nd, t_d),
+               worked=("V = {V}", f"Fv A = {fv_txt} × π × ({{d}})² / 4")),
         _check("bolt shear (shank)", "ASME BTH-1-2017 §3-2.2: Fv = Fy/(Nd √3) on the shank area A" + TAG_LOW,
-               "force", V_sh, Fv * A, cat, bolt & shank),
+               "force", V_sh, Fv * A, cat, bolt & shank, terms=(term("V", "force", V_sh), t_fy, t_nd, t_d),
+               worked=("V = {V}", f"Fv A = {fv_txt} × π × ({{d}})² / 4")),
         _check("bolt shear (thread)", "ASME BTH-1-2017 §3-2.2: Fv = Fy/(Nd √3) on the stress area As"
                + TAG_LOW, "force", V_th, Fv * As, cat, bolt & thread,
-               "a thread lies in this shear plane: rigging practice warns against it"),
+               "a thread lies in this shear plane: rigging practice warns against it",
+               terms=(term("V", "force", V_th), t_fy, t_nd, term("As", "area", As)),
+               worked=("V = {V}", f"Fv As = {fv_txt} × {{As}}")),
         _check("pin bending", "ASME BTH-1-2017 §3-2.3: Fb = 1.25 Fy/Nd on S = π d³/32 (solid round)" + TAG_LOW,
-               "moment", P["M"], Fb * S, cat),
+               "moment", P["M"], Fb * S, cat, terms=(term("M", "moment", P["M"]), t_fy, t_nd, t_d),
+               worked=("M = {M}", "Fb S = 1.25 × {Fy} / {Nd} × π × ({d})³ / 32")),
         _check("pin secured", "ASME BTH-1-2017 §3-3.3 (from memory): the pin is retained against working loose "
                "(1 = not stated secured)", "ratio", np.where(secured, 0.0, 1.0), np.where(secured, 1.0, 0.0), "",
                None, "state secured = true for the pin once it is retained (cotter pin, keeper plate, nut)",
-               uses_forces=False),
+               uses_forces=False, terms=(term("s", "ratio", np.where(secured, 0.0, 1.0)),
+                                         term("c", "ratio", np.where(secured, 1.0, 0.0))),
+               worked=("not stated secured (1) or secured (0) = {s}", "limit = {c}")),
     ]
 
 
@@ -169,21 +184,43 @@ def plate_checks(Q, f, variant="A"):
     Pv = shear_pv(fu, shear_av(a, Dp, Dh, t), Nd, k)
     fy_low = np.minimum(fy, Q["fyp"])
     Fp = bearing_fp(fy_low, Nd, rot)
+    phi = np.radians(55.0 * Dp / Dh)
+    t_F, t_t, t_fu = term("P", "force", F), term("t", "length", t), term("Fu", "stress", fu)
+    t_cr, t_nd, t_k = term("Cr", "ratio", Cr), term("Nd", "ratio", Nd), term("k", "ratio", k)
+    t_dh, t_dp, t_be = term("Dh", "length", Dh), term("Dp", "length", Dp), term("be", "length", be)
+    per = " / ({k} × {Nd})"
     return [
         _check("tension at pin hole", "ASME BTH-1-2017 §3-3.3.1: Pt = Cr Fu 2 t beff/(1.20 Nd), "
-               "beff = 0.6 be (Fu/Fy) √(Dh/be) ≤ be, Cr = 1 − 0.275 √(1 − Dp²/Dh²)", "force", F, Pt, catk),
+               "beff = 0.6 be (Fu/Fy) √(Dh/be) ≤ be, Cr = 1 − 0.275 √(1 − Dp²/Dh²)", "force", F, Pt, catk,
+               note="k: the fracture factor 1.20; Cr and beff as the formula gives them (Cr = 1 where Dp/Dh > 0.90)",
+               terms=(t_F, t_cr, t_fu, t_t, term("beff", "length", beff), t_k, t_nd),
+               worked=("P = {P}", "Pt = {Cr} × {Fu} × 2 × {t} × {beff}" + per)),
         _check("dishing width limit", "ASME BTH-1-2017 §3-3.3.1: beff ≤ 4t (Pt with beff = 4t), the limit "
                "that prevents dishing", "force", F, Pt_dish, catk, ~stiff,
-               "waived for a plate marked stiffened against dishing"),
+               "waived for a plate marked stiffened against dishing",
+               terms=(t_F, t_cr, t_fu, t_t, t_be, t_k, t_nd),
+               worked=("P = {P}", "Pt = {Cr} × {Fu} × 2 × {t} × min(4 × {t}, {be})" + per)),
         _check("single-plane fracture", "ASME BTH-1-2017 §3-3.3.1: Pb = Cr Fu [1.13 (R − Dh/2) + "
-               "0.92 be/(1 + be/Dh)] t/(1.20 Nd) (form from memory)", "force", F, Pb, catk),
+               "0.92 be/(1 + be/Dh)] t/(1.20 Nd) (form from memory)", "force", F, Pb, catk,
+               terms=(t_F, t_cr, t_fu, term("R", "length", R), t_dh, t_be, t_t, t_k, t_nd),
+               worked=("P = {P}", "Pb = {Cr} × {Fu} × (1.13 × ({R} − {Dh} / 2) + 0.92 × {be} / (1 + {be} / {Dh}))"
+                       " × {t}" + per)),
         _check("double-plane shear", "ASME BTH-1-2017 §3-3.3.1: Pv = 0.70 Fu Av/(1.20 Nd), Av = 2 [a + "
-               "(Dp/2)(1 − cos φ)] t, φ = 55 Dp/Dh deg (φ from memory)", "force", F, Pv, catk),
+               "(Dp/2)(1 − cos φ)] t, φ = 55 Dp/Dh deg (φ from memory)", "force", F, Pv, catk,
+               note="kφ = 1 − cos φ",
+               terms=(t_F, t_fu, term("a", "length", a), t_dp, term("kφ", "ratio", 1 - np.cos(phi)), t_t, t_k, t_nd),
+               worked=("P = {P}", "Pv = 0.70 × {Fu} × 2 × ({a} + {Dp} / 2 × {kφ}) × {t}" + per)),
         _check("bearing", "ASME BTH-1-2017 §3-3.3.3: Fp = 1.25 Fy/Nd on Dp t (from memory; Fy the lower of "
-               "plate and pin)", "force", F, Fp * Dp * t, cat, ~rot),
+               "plate and pin)", "force", F, Fp * Dp * t, cat, ~rot,
+               terms=(t_F, term("Fy", "stress", fy_low), t_nd, t_dp, t_t),
+               worked=("P = {P}", "Fp Dp t = 1.25 × {Fy} / {Nd} × {Dp} × {t}")),
         _check("bearing (rotating)", "ASME BTH-1-2017 §3-3.3.3: Fp = 0.63 Fy/Nd on Dp t, pin rotating under "
-               "load (from memory)", "force", F, Fp * Dp * t, cat, rot),
+               "load (from memory)", "force", F, Fp * Dp * t, cat, rot,
+               terms=(t_F, term("Fy", "stress", fy_low), t_nd, t_dp, t_t),
+               worked=("P = {P}", "Fp Dp t = 0.63 × {Fy} / {Nd} × {Dp} × {t}")),
         _check("pin-to-hole clearance", "ASME BTH-1-2017 §3-3.3.4: Dh − Dp ≤ 0.10 Dp, i.e. Dh ≤ 1.10 Dp "
                "(from memory, LOW confidence)", "length", Dh - Dp, (f["clearance_max"] - 1) * Dp,
-               f"clearance_max = {f['clearance_max']:g}", uses_forces=False),
+               f"clearance_max = {f['clearance_max']:g}", uses_forces=False,
+               terms=(t_dh, t_dp, term("cmax", "ratio", f["clearance_max"])),
+               worked=("Dh − Dp = {Dh} − {Dp}", "({cmax} − 1) × {Dp}")),
     ]

@@ -32,6 +32,12 @@ def _check(*args, **kw):
     return make_check(*args, **kw)
 
 
+def term(symbol, kind, values):
+    from . import term as _term
+
+    return _term(symbol, kind, values)
+
+
 #: Table 3.4: αv for a shear plane through the thread, by property class (0.6 through the shank).
 #: [seen for 4.6, 8.8, 10.9; from memory for 4.8, 5.6, 5.8, 6.8]. Other grades: 0.5, the lower value
 #: (common practice: EN 1993-1-8 gives αv only for these classes).
@@ -62,24 +68,44 @@ def pin_checks(P, f, variant=None):
     shank, thread = P.get("shank_planes", np.ones(n, bool)), P.get("thread_planes", np.zeros(n, bool))
     Fv_sh = 0.6 * P["fup"] * A / g2  # Table 3.4, shank in the shear plane
     av_th = alpha_v_thread(P.get("grade", [""] * n))
-    Fv_th = av_th * P["fup"] * P.get("As", A) / g2  # Table 3.4, thread in the shear plane
+    As = P.get("As", A)
+    Fv_th = av_th * P["fup"] * As / g2  # Table 3.4, thread in the shear plane
     shear_ratio = np.where(bolt, np.maximum(V_sh / Fv_sh, V_th / Fv_th), P["V"] / Fv_Rd)
     inter = (P["M"] / M_Rd) ** 2 + shear_ratio ** 2
+    V, M = P["V"], P["M"]
+    # the shear and resistance the interaction uses: a bolt's worse of shank and thread
+    by_thread = bolt & (V_th / Fv_th > V_sh / Fv_sh)
+    V_int = np.where(bolt, np.where(by_thread, V_th, V_sh), V)
+    Fv_int = np.where(bolt, np.where(by_thread, Fv_th, Fv_sh), Fv_Rd)
+    t_d = term("d", "length", d)
+    t_V, t_M = term("Fv,Ed", "force", V), term("MEd", "moment", M)
+    t_fup, t_fyp = term("fup", "stress", P["fup"]), term("fyp", "stress", P["fyp"])
+    t_g0, t_g2, t_g6 = term("γM0", "ratio", g0), term("γM2", "ratio", g2), term("γM6,ser", "ratio", g6)
     return [
-        _check("pin shear", "EN 1993-1-8 Table 3.10: Fv,Rd = 0.6 A fup / γM2", "force", P["V"], Fv_Rd,
-               f"γM2 = {g2:g}", uls & ~bolt),
+        _check("pin shear", "EN 1993-1-8 Table 3.10: Fv,Rd = 0.6 A fup / γM2", "force", V, Fv_Rd,
+               f"γM2 = {g2:g}", uls & ~bolt, terms=(t_V, t_d, t_fup, t_g2),
+               worked=("Fv,Ed = {Fv,Ed}", "Fv,Rd = 0.6 × π ({d})² / 4 × {fup} / {γM2}")),
         _check("bolt shear (shank)", "EN 1993-1-8 Table 3.4: Fv,Rd = αv fub A / γM2, αv = 0.6 (shank)", "force",
-               V_sh, Fv_sh, f"γM2 = {g2:g}, αv = 0.6", uls & bolt & shank),
+               V_sh, Fv_sh, f"γM2 = {g2:g}, αv = 0.6", uls & bolt & shank,
+               terms=(term("Fv,Ed", "force", V_sh), term("fub", "stress", P["fup"]), t_d, t_g2),
+               worked=("Fv,Ed = {Fv,Ed}", "Fv,Rd = 0.6 × {fub} × π ({d})² / 4 / {γM2}")),
         _check("bolt shear (thread)", "EN 1993-1-8 Table 3.4: Fv,Rd = αv fub As / γM2 (thread in the plane)",
                "force", V_th, Fv_th, f"γM2 = {g2:g}, αv by class (0.6 for 4.6, 5.6, 8.8; 0.5 otherwise)",
-               uls & bolt & thread, "a thread lies in this shear plane: rigging practice warns against it"),
+               uls & bolt & thread, "a thread lies in this shear plane: rigging practice warns against it",
+               terms=(term("Fv,Ed", "force", V_th), term("αv", "ratio", av_th), term("fub", "stress", P["fup"]),
+                      term("As", "area", As), t_g2),
+               worked=("Fv,Ed = {Fv,Ed}", "Fv,Rd = {αv} × {fub} × {As} / {γM2}")),
         _check("pin bending", "EN 1993-1-8 Table 3.10: MRd = 1.5 Wel fyp / γM0 (MEd per Fig. 3.11 model)",
-               "moment", P["M"], M_Rd, f"γM0 = {g0:g}", uls),
+               "moment", M, M_Rd, f"γM0 = {g0:g}", uls, terms=(t_M, t_d, t_fyp, t_g0),
+               worked=("MEd = {MEd}", "MRd = 1.5 × π ({d})³ / 32 × {fyp} / {γM0}")),
         _check("pin shear + bending", "EN 1993-1-8 Table 3.10: (MEd/MRd)² + (Fv,Ed/Fv,Rd)² ≤ 1", "ratio",
                inter, np.ones_like(inter), f"γM0 = {g0:g}, γM2 = {g2:g}", uls,
-               "largest moment and largest shear combined, wherever they occur (conservative)"),
+               "largest moment and largest shear combined, wherever they occur (conservative)",
+               terms=(t_M, term("MRd", "moment", M_Rd), term("Fv,Ed", "force", V_int), term("Fv,Rd", "force", Fv_int)),
+               worked=("({MEd} / {MRd})² + ({Fv,Ed} / {Fv,Rd})²", "1")),
         _check("pin bending (serviceability)", "EN 1993-1-8 Table 3.10: MRd,ser = 0.8 Wel fyp / γM6,ser",
-               "moment", P["M"], M_Rd_ser, f"γM6,ser = {g6:g}", P["ser"]),
+               "moment", M, M_Rd_ser, f"γM6,ser = {g6:g}", P["ser"], terms=(t_M, t_d, t_fyp, t_g6),
+               worked=("MEd,ser = {MEd}", "MRd,ser = 0.8 × π ({d})³ / 32 × {fyp} / {γM6,ser}")),
     ]
 
 
@@ -98,19 +124,34 @@ def plate_checks(Q, f, variant=None):
     c_have = Q["width"] / 2 - d0 / 2  # Table 3.9: c from the hole edge to the side edge
     base = F * g0 / (2 * t * Q["fy"])
     t_min_b = 0.7 * np.sqrt(F * g0 / Q["fy"])
+    t_F, t_t, t_d, t_d0 = (term("FEd", "force", F), term("t", "length", t), term("d", "length", d),
+                           term("d0", "length", d0))
+    t_fyl, t_fy = term("fy", "stress", fy_low), term("fy", "stress", Q["fy"])
+    t_g0, t_g6 = term("γM0", "ratio", g0), term("γM6,ser", "ratio", g6)
+    req_a = "{FEd} × {γM0} / (2 × {t} × {fy})"
     return [
         _check("bearing", "EN 1993-1-8 Table 3.10: Fb,Rd = 1.5 t d fy / γM0", "force", F, Fb_Rd,
-               f"γM0 = {g0:g}", uls),
+               f"γM0 = {g0:g}", uls, terms=(t_F, t_t, t_d, t_fyl, t_g0),
+               worked=("FEd = {FEd}", "Fb,Rd = 1.5 × {t} × {d} × {fy} / {γM0}")),
         _check("bearing (serviceability)", "EN 1993-1-8 Table 3.10: Fb,Rd,ser = 0.6 t d fy / γM6,ser",
-               "force", F, Fb_Rd_ser, f"γM6,ser = {g6:g}", ser),
+               "force", F, Fb_Rd_ser, f"γM6,ser = {g6:g}", ser, terms=(t_F, t_t, t_d, t_fyl, t_g6),
+               worked=("FEd,ser = {FEd}", "Fb,Rd,ser = 0.6 × {t} × {d} × {fy} / {γM6,ser}")),
         _check("contact stress", "EN 1993-1-8 eqs (3.14)-(3.16): σh,Ed = 0.591 √(E F (d0-d)/(d² t)) ≤ 2.5 fy / γM6,ser",
-               "stress", sigma_h, fh_Rd, f"γM6,ser = {g6:g}", ser),
+               "stress", sigma_h, fh_Rd, f"γM6,ser = {g6:g}", ser,
+               terms=(term("E", "stress", Q["E"]), t_F, t_d0, t_d, t_t, t_fyl, t_g6),
+               worked=("σh,Ed = 0.591 × √({E} × {FEd} × ({d0} − {d}) / (({d})² × {t}))",
+                       "fh,Rd = 2.5 × {fy} / {γM6,ser}")),
         _check("end distance (type A)", "EN 1993-1-8 Table 3.9 A: a ≥ FEd γM0/(2 t fy) + 2 d0/3", "length",
-               base + 2 * d0 / 3, a_have, f"γM0 = {g0:g}", type_a),
+               base + 2 * d0 / 3, a_have, f"γM0 = {g0:g}", type_a,
+               terms=(t_F, t_g0, t_t, t_fy, t_d0, term("e", "length", Q["a_end"])),
+               worked=("a,req = " + req_a + " + 2 × {d0} / 3", "a = {e} − {d0} / 2")),
         _check("edge distance (type A)", "EN 1993-1-8 Table 3.9 A: c ≥ FEd γM0/(2 t fy) + d0/3", "length",
-               base + d0 / 3, c_have, f"γM0 = {g0:g}", type_a),
+               base + d0 / 3, c_have, f"γM0 = {g0:g}", type_a,
+               terms=(t_F, t_g0, t_t, t_fy, t_d0, term("w", "length", Q["width"])),
+               worked=("c,req = " + req_a + " + {d0} / 3", "c = {w} / 2 − {d0} / 2")),
         _check("thickness (type B)", "EN 1993-1-8 Table 3.9 B: t ≥ 0.7 √(FEd γM0 / fy)", "length",
-               t_min_b, t, f"γM0 = {g0:g}", type_b, "outline of the Table 3.9 B figure assumed"),
+               t_min_b, t, f"γM0 = {g0:g}", type_b, "outline of the Table 3.9 B figure assumed",
+               terms=(t_F, t_g0, t_fy, t_t), worked=("t,req = 0.7 × √({FEd} × {γM0} / {fy})", "t = {t}")),
         _check("hole to thickness (type B)", "EN 1993-1-8 Table 3.9 B: d0 ≤ 2.5 t", "length", d0, 2.5 * t,
-               "", type_b, uses_forces=False),
+               "", type_b, uses_forces=False, terms=(t_d0, t_t), worked=("d0 = {d0}", "2.5 × {t}")),
     ]

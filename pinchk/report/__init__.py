@@ -1,4 +1,8 @@
-"""Views of the results table: terminal table, JSON and CSV. Each is a function Results -> str."""
+"""Views of the results table: terminal table, JSON, CSV, and the calculation report as Markdown or HTML.
+
+Each is a function Results -> str, reached through ``render(results, fmt)``; ``write_report`` (in
+``.output``) writes one to a file safely, with a Markdown report's pictures beside it.
+"""
 
 from __future__ import annotations
 
@@ -18,4 +22,13 @@ FORMATS = {
     "table": (".text", "render_table"),
     "json": (".data", "render_json"),
     "csv": (".data", "render_csv"),
+    "md": (".document", "render_md"),
+    "html": (".document", "render_html"),
 }
+
+
+def write_report(results, fmt: str, path: str, protect=(), **options) -> list[str]:
+    """Write the view ``fmt`` to ``path`` through temporary files (never over an input): the paths written."""
+    from .output import write_report as _write
+
+    return _write(results, fmt, path, protect, **options)
