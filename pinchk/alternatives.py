@@ -1080,7 +1080,9 @@ def _size_one(base: Base, name: str, D, T, step) -> Sized:
                 s_note = swj.reason[0]
     # exact diameter: plates as chosen, edge distances not rounded
     d_exact, d_check = None, ""
-    if "pin" in _what_of(D, job, name):
+    if "pin" in _what_of(D, job, name) and getattr(job.pins[name], "bolt", None) is not None:
+        d_check = "none: a bolt comes in its listed thread sizes only"
+    elif "pin" in _what_of(D, job, name):
         d_exact = diameter_limit(base, name, opt, lo=D[gi - 1] if gi > 0 else None)
         if d_exact is not None:
             s = evaluate(base, {name: [replace(opt, diameter=d_exact * (1 - 1e-5), round_to=None)]})[name]

@@ -47,8 +47,8 @@ def _alternative_parsers(sub) -> None:
     """compare, size and rate (pinchk.alternatives); docs/sweeps.md describes them."""
     def common(q):
         q.add_argument("job", metavar="JOB", help="the job file (TOML), see docs/jobfile.md")
-        q.add_argument("--format", choices=["table", "json", "csv"], default="table",
-                       help="view of the results (default: table)")
+        q.add_argument("--format", choices=["table", "json", "csv", "md"], default="table",
+                       help="view of the results (default: table; md: the table view as Markdown)")
         q.add_argument("--output", metavar="PATH", help="write the view to PATH instead of the terminal")
 
     c = sub.add_parser("compare", help="check a pin with alternative grades, materials, sizes or methods",

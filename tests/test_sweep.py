@@ -217,7 +217,10 @@ def test_size_passes_and_next_smaller_fails(path, what):
         u = _pin_max(run(alt.sized_job(job, sz, smaller=True, name=n)), n)
         assert u > 1.0, n
         assert u == pytest.approx(s.smaller_util, rel=1e-9)
-        assert s.d_exact is not None and s.smaller.diameter < s.d_exact <= s.option.diameter
+        if job.pins[n].bolt is not None:  # a bolt: thread sizes only, no diameter in between
+            assert s.d_exact is None and "thread sizes" in s.d_exact_check
+        else:
+            assert s.d_exact is not None and s.smaller.diameter < s.d_exact <= s.option.diameter
 
 
 def test_sized_diameter_solves_the_interaction_equation_by_hand(gantry):
@@ -556,6 +559,22 @@ def test_cli_size_and_rate_json(capsys):
     assert main(["rate", SPREADER, "--format", "json"]) == 0
     r = json.loads(capsys.readouterr().out)
     assert r["limit"] == "check" and r["governing"]["check"] == "bearing" and r["factor"] > 1
+
+
+def test_cli_markdown_views(capsys):
+    for argv in (["compare", GANTRY, "--pin", "PL", "--grade", "8.8"], ["size", SPREADER, "--pin", "P_A"],
+                 ["rate", GANTRY, "--load", "hook"]):
+        assert main(argv + ["--format", "md"]) == 0
+        text = capsys.readouterr().out
+        assert text.startswith("# pinchk ") and "|---" in text and "- caution:" in text
+        blocks, cur = [], []
+        for line in text.splitlines() + [""]:  # every row of a table has as many cells as its header
+            if line.startswith("|"):
+                cur.append(line.count("|"))
+            elif cur:
+                blocks.append(cur)
+                cur = []
+        assert blocks and all(len(set(b)) == 1 for b in blocks)
 
 
 def test_cli_size_and_rate(tmp_path, capsys):

@@ -6,6 +6,7 @@ import csv
 import io
 import json
 import math
+import re
 
 from tabulate import tabulate
 
@@ -33,6 +34,28 @@ def _num(x):
 def _head(job, method, what):
     return {"pinchk": __version__, "command": what,
             "job": {"title": job.title, "file": job.path, **job.info}, "method": method}
+
+
+def _tf(md: bool) -> str:
+    return "github" if md else "simple"
+
+
+def _finish(out: list[str], md: bool, sections: tuple[str, ...]) -> str:
+    """The lines as terminal text, or as Markdown: a title, sections, tables and the other lines as a list."""
+    if not md:
+        return "\n".join(out) + "\n"
+    res = []
+    for i, line in enumerate(out):
+        if i == 0:
+            res += [f"# {line}", ""]
+        elif "\n" in line:  # a table
+            res += ["", line, ""]
+        elif line.startswith(sections):
+            res += ["", f"## {line}", ""]
+        elif line:
+            res.append(f"- {line}")
+    text = "\n".join(res)
+    return re.sub(r"\n{3,}", "\n\n", text).strip() + "\n"
 
 
 def _csv(rows: list[dict]) -> str:
@@ -70,7 +93,7 @@ def compare_rows(cmp) -> list[dict]:
     return out
 
 
-def compare_table(cmp) -> str:
+def compare_table(cmp, md: bool = False) -> str:
     out = [f"pinchk compare: {cmp.job.title}", f"method: {cmp.method}", ""]
     for n, sw in cmp.sweeps.items():
         rows = []
@@ -82,7 +105,8 @@ def compare_table(cmp) -> str:
                          MARK if r["marked"] else ""))
         out.append(f"pin {n}")
         out.append(tabulate(rows, headers=["alternative", "governing check", "part", "case", "utilization", "status",
-                                           "strength check (if not governing)", ""], disable_numparse=True))
+                                           "strength check (if not governing)", ""], disable_numparse=True,
+                            tablefmt=_tf(md)))
         for m in cmp.marked.get(n, ()):
             out.append(f"lightest passing: {sw.options[m].label} (utilization {sw.util[m]:.3f})")
         if not sw.options:
@@ -95,7 +119,7 @@ def compare_table(cmp) -> str:
         out.append("")
     out += [f"note: {x}" for x in cmp.notes]
     out.append(f"caution: {CAUTION}")
-    return "\n".join(out) + "\n"
+    return _finish(out, md, ("pin ",))
 
 
 def compare_json(cmp) -> str:
@@ -143,7 +167,7 @@ def size_rows(sz) -> tuple[list[dict], list[dict]]:
     return pins, plates
 
 
-def size_table(sz) -> str:
+def size_table(sz, md: bool = False) -> str:
     lu, _ = _units(sz.job)
     ul = unit_label(lu)
     pins, plates = size_rows(sz)
@@ -165,20 +189,20 @@ def size_table(sz) -> str:
     out.append(tabulate(rows, headers=["pin", f"d [{ul}]", "utilization", "governing check", "where",
                                        "strength check", f"next smaller d [{ul}]: utilization, check",
                                        f"exact d [{ul}]", "limited by"],
-                        disable_numparse=True))
+                        disable_numparse=True, tablefmt=_tf(md)))
     out.append("")
     prow = [(r["pin"], r["part"], f"{fmt(r['thickness_as_job'])} -> {fmt(r['thickness'])}", fmt(r["end"]),
              fmt(r["width"]), "-" if r["exact_thickness"] is None else fmt(r["exact_thickness"]),
              r["exact_thickness_check"]) for r in plates]
     out.append("Plates at the chosen size")
     out.append(tabulate(prow, headers=["pin", "part", f"t [{ul}]", f"end [{ul}]", f"width [{ul}]",
-                                       f"exact t [{ul}]", "limited by"], disable_numparse=True))
+                                       f"exact t [{ul}]", "limited by"], disable_numparse=True, tablefmt=_tf(md)))
     out.append("")
     out += [f"note: {x}" for x in sz.notes]
     out.append("FOUND: every pin has a size in the series that passes" if sz.found else
                 "NOT FOUND: some pin has no size in the series that passes")
     out.append(f"caution: {CAUTION}")
-    return "\n".join(out) + "\n"
+    return _finish(out, md, ("Plates at",))
 
 
 def size_json(sz) -> str:
@@ -226,7 +250,7 @@ def rate_dict(rt) -> dict:
             "why_not_a_division": list(rt.reasons), "runs": rt.evaluations}
 
 
-def rate_table(rt) -> str:
+def rate_table(rt, md: bool = False) -> str:
     _, fu = _units(rt.job)
     d = rate_dict(rt)
     out = [f"pinchk rate: {rt.job.title}", f"scaled: {rt.what}", ""]
@@ -253,14 +277,15 @@ def rate_table(rt) -> str:
             out.append("")
             out.append("Scaled loads at the limit (a load straight down also as the mass whose weight it is, "
                        "standard gravity)")
-            out.append(tabulate(rows, headers=["case", "load", f"|F| [{unit_label(fu)}]",
-                                               f"as a mass [{unit_label(mu)}]"], disable_numparse=True))
+            out.append(tabulate(rows, headers=["case", "load", f"force [{unit_label(fu)}]",
+                                               f"as a mass [{unit_label(mu)}]"], disable_numparse=True,
+                                tablefmt=_tf(md)))
     out.append("")
     out += [f"note: {x}" for x in rt.reasons]
     out.append(f"note: limit solved by root finding on the largest utilization of {rt.evaluations} full runs "
                "(scipy.optimize.brentq), not by division")
     out.append(f"caution: {CAUTION}")
-    return "\n".join(out) + "\n"
+    return _finish(out, md, ("Scaled loads",))
 
 
 def rate_json(rt) -> str:
@@ -280,7 +305,8 @@ def rate_csv(rt) -> str:
 
 
 VIEWS = {
-    "compare": {"table": compare_table, "json": compare_json, "csv": compare_csv},
-    "size": {"table": size_table, "json": size_json, "csv": size_csv},
-    "rate": {"table": rate_table, "json": rate_json, "csv": rate_csv},
+    "compare": {"table": compare_table, "json": compare_json, "csv": compare_csv,
+                "md": lambda r: compare_table(r, md=True)},
+    "size": {"table": size_table, "json": size_json, "csv": size_csv, "md": lambda r: size_table(r, md=True)},
+    "rate": {"table": rate_table, "json": rate_json, "csv": rate_csv, "md": lambda r: rate_table(r, md=True)},
 }
