@@ -190,6 +190,16 @@ def test_method_variants_agree_with_the_ordinary_path(gantry):
         assert sw.util[i] == pytest.approx(_pin_max(run(job2), "PL"), rel=1e-12)
 
 
+def test_json_has_no_infinity(capsys):
+    """BTH-1's 'pin secured' rule has capacity 0 where the job does not say the pin is secured: its
+    utilization is infinite, which JSON (RFC 8259 §6) cannot hold; it is written as null, as run does."""
+    assert main(["compare", GANTRY, "--pin", "PL", "--method", "ASME BTH-1", "--format", "json"]) == 0
+    text = capsys.readouterr().out
+    d = json.loads(text, parse_constant=lambda c: pytest.fail(f"non-JSON constant {c}"))
+    row = d["pins"][0]["alternatives"][0]
+    assert row["governing_check"] == "pin secured" and row["utilization"] is None and row["status"] == "FAIL"
+
+
 def test_method_comparison_is_not_ranked(gantry):
     cmp = alt.compare(gantry, pins=["PL"], methods=["EN 1993-1-8", "AISC 360-16", "ASME BTH-1"])
     assert [o.method for o in cmp.sweeps["PL"].options] == ["EN 1993-1-8", "AISC 360-16", "ASME BTH-1"]

@@ -14,6 +14,7 @@ from .. import __version__
 from ..units import G0, UNIT_SYSTEMS, from_si, unit_label
 from . import CAUTION
 from .common import fmt
+from .data import _finite
 
 MARK = "<- lightest passing"
 
@@ -130,7 +131,7 @@ def compare_json(cmp) -> str:
                  for n in cmp.sweeps]
     d["notes"] = list(cmp.notes)
     d["caution"] = CAUTION
-    return json.dumps(d, indent=2, ensure_ascii=False) + "\n"
+    return json.dumps(_finite(d), indent=2, ensure_ascii=False, allow_nan=False) + "\n"
 
 
 def compare_csv(cmp) -> str:
@@ -216,7 +217,7 @@ def size_json(sz) -> str:
     d["found"] = sz.found
     d["notes"] = list(sz.notes)
     d["caution"] = CAUTION
-    return json.dumps(d, indent=2, ensure_ascii=False) + "\n"
+    return json.dumps(_finite(d), indent=2, ensure_ascii=False, allow_nan=False) + "\n"
 
 
 def size_csv(sz) -> str:
@@ -292,7 +293,7 @@ def rate_json(rt) -> str:
     d = _head(rt.job, rt.job.method.name, "rate")
     d.update(rate_dict(rt))
     d["caution"] = CAUTION
-    return json.dumps(d, indent=2, ensure_ascii=False) + "\n"
+    return json.dumps(_finite(d), indent=2, ensure_ascii=False, allow_nan=False) + "\n"
 
 
 def rate_csv(rt) -> str:
