@@ -30,48 +30,10 @@ capacity only. A new method only has to follow this pattern (docs/report.md).
 
 from __future__ import annotations
 
-from dataclasses import dataclass
-
-import numpy as np
-import numpy.typing as npt
-
 from . import aisc360_16, allowable, bth1, en1993_1_8
+from .base import Check, factors_for, make_check, secured_check, term
 
-
-@dataclass(frozen=True)
-class Check:
-    """One check over many rows: demand against capacity, with its clause.
-
-    ``kind`` is the kind of figure demand and capacity are ("force", "moment", "length", "stress" or
-    "ratio"); ``mask`` marks the rows the check applies to; ``factors`` lists the factors used.
-    """
-
-    name: str
-    clause: str  # the standard and clause, e.g. "EN 1993-1-8 Table 3.10"
-    formula: str  # the equation checked, as the clause writes it
-    kind: str
-    demand: npt.NDArray[np.float64]
-    capacity: npt.NDArray[np.float64]
-    factors: str
-    mask: npt.NDArray[np.bool_] | None = None
-    note: str = ""
-    uses_forces: bool = True  # False for a detailing rule the forces do not enter (no load factors apply)
-    terms: tuple[tuple[str, str, object], ...] = ()  # (symbol, kind, SI values or a scalar)
-    worked: tuple[str, str] = ("", "")  # demand and capacity as expressions in {symbol}s
-
-
-def term(symbol: str, kind: str, values) -> tuple[str, str, object]:
-    """One named input of a check's formula: (symbol as printed, kind of figure, SI values or a scalar)."""
-    return (symbol, kind, values)
-
-
-def make_check(name, clause_formula, kind, demand, capacity, factors, mask=None, note="",
-               uses_forces=True, terms=(), worked=("", "")) -> Check:
-    """A Check from "clause: formula" text and array-likes (the form the method modules write)."""
-    clause, _, formula = clause_formula.partition(": ")
-    return Check(name, clause, formula, kind, np.asarray(demand, float), np.asarray(capacity, float),
-                 factors, mask, note, uses_forces, tuple(terms), tuple(worked))
-
+__all__ = ["METHODS", "Check", "factors_for", "make_check", "secured_check", "term"]
 
 METHODS = {
     en1993_1_8.NAME: en1993_1_8,
@@ -79,10 +41,3 @@ METHODS = {
     bth1.NAME: bth1,
     allowable.NAME: allowable,
 }
-
-
-def factors_for(module, overrides: dict[str, float]) -> dict[str, float]:
-    """The method's default factors with the job's overrides applied."""
-    f = {k: v[0] for k, v in module.FACTORS.items()}
-    f.update(overrides)
-    return f

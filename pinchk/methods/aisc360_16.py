@@ -14,6 +14,9 @@ from __future__ import annotations
 
 import numpy as np
 
+from .base import make_check as _check
+from .base import term
+
 NAME = "AISC 360-16"
 EDITION = "ANSI/AISC 360-16"
 VARIANTS = ("ASD", "LRFD")
@@ -60,16 +63,6 @@ def _resistance(Rn, f, key, variant):
     return Rn / om, f"Ω = {om:g}"
 
 
-def _check(*args, **kw):
-    from . import make_check
-
-    return make_check(*args, **kw)
-
-
-def term(symbol, kind, values):
-    from . import term as _term
-
-    return _term(symbol, kind, values)
 
 
 def _avail(f, key, variant, lhs, expr):

@@ -30,6 +30,9 @@ from __future__ import annotations
 
 import numpy as np
 
+from .base import make_check as _check
+from .base import secured_check, term
+
 NAME = "allowable stress"
 EDITION = "in-house allowable stresses: min(k_y fy / n_y, k_u fu / n_u) per check (defaults common practice)"
 VARIANTS: tuple[str, ...] = ()
@@ -51,11 +54,6 @@ for _key, (_name, _ky, _ku, _what) in CHECKS.items():
 FACTORS["clearance_max"] = (1.10, "largest Dh/Dp (common practice)")
 
 
-def _check(*args, **kw):
-    from . import make_check
-
-    return make_check(*args, **kw)
-
 
 def allowable(key, fy, fu, f):
     """min(k_y fy / n_y, k_u fu / n_u) [Pa] of check ``key``, and the factors as printed."""
@@ -63,11 +61,6 @@ def allowable(key, fy, fu, f):
     text = f"k_y = {ky:g}, n_y = {ny:g}, k_u = {ku:g}, n_u = {nu:g}"
     return np.minimum(ky * fy / ny, ku * fu / nu), text
 
-
-def term(symbol, kind, values):
-    from . import term as _term
-
-    return _term(symbol, kind, values)
 
 
 def _allow_terms(key, fy, fu, f):
@@ -92,7 +85,6 @@ def pin_checks(P, f, variant=None):
     As = P.get("As", A)
     V_sh, V_th = P.get("V_shank", P["V"]), P.get("V_thread", np.zeros(n))
     shank, thread = P.get("shank_planes", np.ones(n, bool)), P.get("thread_planes", np.zeros(n, bool))
-    secured = P.get("secured", np.zeros(n, bool))
     tau, ft = allowable("pin_shear", P["fyp"], P["fup"], f)
     sig, fb = allowable("pin_bending", P["fyp"], P["fup"], f)
     w_s, t_s = _allow_terms("pin_shear", P["fyp"], P["fup"], f)
@@ -108,12 +100,7 @@ def pin_checks(P, f, variant=None):
                terms=(term("V", "force", V_th), term("As", "area", As), *t_s), worked=("τ = {V} / {As}", w_s)),
         _check("pin bending", _clause("pin_bending"), "stress", P["M"] / Wel, sig, fb,
                terms=(term("M", "moment", P["M"]), t_d, *t_b), worked=("σ = {M} / (π × ({d})³ / 32)", w_b)),
-        _check("pin secured", "common practice: the pin is retained against working loose (1 = not stated "
-               "secured)", "ratio", np.where(secured, 0.0, 1.0), np.where(secured, 1.0, 0.0), "", None,
-               "state secured = true for the pin once it is retained (cotter pin, keeper plate, nut)",
-               uses_forces=False, terms=(term("s", "ratio", np.where(secured, 0.0, 1.0)),
-                                         term("c", "ratio", np.where(secured, 1.0, 0.0))),
-               worked=("not stated secured (1) or secured (0) = {s}", "limit = {c}")),
+        secured_check("common practice: the pin is retained against working loose", P),
     ]
 
 

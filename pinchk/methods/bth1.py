@@ -46,6 +46,9 @@ from __future__ import annotations
 
 import numpy as np
 
+from .base import make_check as _check
+from .base import secured_check, term
+
 NAME = "ASME BTH-1"
 EDITION = "ASME BTH-1-2017 §3-3.3 (paragraph numbers from memory; 2008 and 2014 editions renumber the equations)"
 VARIANTS = ("A", "B")  # Design Category
@@ -58,16 +61,6 @@ FACTORS = {
 TAG_LOW = " [from memory, LOW confidence]"
 
 
-def _check(*args, **kw):
-    from . import make_check
-
-    return make_check(*args, **kw)
-
-
-def term(symbol, kind, values):
-    from . import term as _term
-
-    return _term(symbol, kind, values)
 
 
 def design_factor(f, variant):
@@ -136,7 +129,6 @@ def pin_checks(P, f, variant="A"):
     As = P.get("As", A)
     V_sh, V_th = P.get("V_shank", P["V"]), P.get("V_thread", np.zeros(n))
     shank, thread = P.get("shank_planes", np.ones(n, bool)), P.get("thread_planes", np.zeros(n, bool))
-    secured = P.get("secured", np.zeros(n, bool))
     t_fy, t_nd, t_d = term("Fy", "stress", P["fyp"]), term("Nd", "ratio", Nd), term("d", "length", d)
     fv_txt = "{Fy} / ({Nd} × √(3))"
     return [
@@ -154,12 +146,7 @@ def pin_checks(P, f, variant="A"):
         _check("pin bending", "ASME BTH-1-2017 §3-2.3: Fb = 1.25 Fy/Nd on S = π d³/32 (solid round)" + TAG_LOW,
                "moment", P["M"], Fb * S, cat, terms=(term("M", "moment", P["M"]), t_fy, t_nd, t_d),
                worked=("M = {M}", "Fb S = 1.25 × {Fy} / {Nd} × π × ({d})³ / 32")),
-        _check("pin secured", "ASME BTH-1-2017 §3-3.3 (from memory): the pin is retained against working loose "
-               "(1 = not stated secured)", "ratio", np.where(secured, 0.0, 1.0), np.where(secured, 1.0, 0.0), "",
-               None, "state secured = true for the pin once it is retained (cotter pin, keeper plate, nut)",
-               uses_forces=False, terms=(term("s", "ratio", np.where(secured, 0.0, 1.0)),
-                                         term("c", "ratio", np.where(secured, 1.0, 0.0))),
-               worked=("not stated secured (1) or secured (0) = {s}", "limit = {c}")),
+        secured_check("ASME BTH-1-2017 §3-3.3 (from memory): the pin is retained against working loose", P),
     ]
 
 

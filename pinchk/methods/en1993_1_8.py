@@ -16,6 +16,9 @@ from __future__ import annotations
 
 import numpy as np
 
+from .base import make_check as _check
+from .base import term
+
 NAME = "EN 1993-1-8"
 EDITION = "EN 1993-1-8:2005 (with EN 1993-1-1:2005 for γM0), recommended partial factors"
 VARIANTS: tuple[str, ...] = ()
@@ -26,16 +29,6 @@ FACTORS = {
 }
 
 
-def _check(*args, **kw):
-    from . import make_check
-
-    return make_check(*args, **kw)
-
-
-def term(symbol, kind, values):
-    from . import term as _term
-
-    return _term(symbol, kind, values)
 
 
 #: Table 3.4: αv for a shear plane through the thread, by property class (0.6 through the shank).

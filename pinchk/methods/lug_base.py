@@ -18,17 +18,8 @@ from __future__ import annotations
 
 import numpy as np
 
-
-def _check(*args, **kw):
-    from . import make_check
-
-    return make_check(*args, **kw)
-
-
-def _term(symbol, kind, values):
-    from . import term
-
-    return term(symbol, kind, values)
+from .base import make_check as _check
+from .base import term as _term
 
 
 def _sections(L):
