@@ -17,6 +17,7 @@ import json
 import math
 import os
 from dataclasses import replace
+from pathlib import Path
 
 import numpy as np
 import pytest
@@ -190,10 +191,12 @@ def test_method_variants_agree_with_the_ordinary_path(gantry):
         assert sw.util[i] == pytest.approx(_pin_max(run(job2), "PL"), rel=1e-12)
 
 
-def test_json_has_no_infinity(capsys):
+def test_json_has_no_infinity(capsys, tmp_path):
     """BTH-1's 'pin secured' rule has capacity 0 where the job does not say the pin is secured: its
     utilization is infinite, which JSON (RFC 8259 §6) cannot hold; it is written as null, as run does."""
-    assert main(["compare", GANTRY, "--pin", "PL", "--method", "ASME BTH-1", "--format", "json"]) == 0
+    unsecured = tmp_path / "gantry_unsecured.toml"
+    unsecured.write_text(Path(GANTRY).read_text().replace("secured = true", "secured = false"))
+    assert main(["compare", str(unsecured), "--pin", "PL", "--method", "ASME BTH-1", "--format", "json"]) == 0
     text = capsys.readouterr().out
     d = json.loads(text, parse_constant=lambda c: pytest.fail(f"non-JSON constant {c}"))
     row = d["pins"][0]["alternatives"][0]
@@ -348,10 +351,13 @@ name = "EN 1993-1-8"
 [body.boom]
 points = { R = [0, 0], T = [2000, 0] }
 [pin.P_root]
+secured = true
 joins = ["boom.R"]
 [pin.P_wall]
+secured = true
 at = [0, 1500]
 [pin.P_tip]
+secured = true
 joins = ["boom.T"]
 diameter = 30
 hole = 32
@@ -429,6 +435,7 @@ name = "EN 1993-1-8"
 [body.beam]
 points = { A = [0, 0], M = [1000, 0], B = [2000, 0], C = [3000, 0] }
 [pin.PA]
+secured = true
 joins = ["beam.A"]
 diameter = 30
 hole = 32
@@ -454,6 +461,7 @@ width = 100
 end = 60
 gap = 1
 [pin.PB]
+secured = true
 joins = ["beam.B"]
 [support.pin]
 at = "PA"
