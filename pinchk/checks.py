@@ -76,9 +76,13 @@ class Results:
         return pd.DataFrame({k: list(v) if isinstance(v, tuple) else v for k, v in self.columns.items()})
 
 
-def run_checks(job: Job, sol: FrameSolution) -> Results:
-    """Check every pin of ``job`` that has a stack, for every load case of ``sol``."""
-    mod = METHODS[job.method.name]
+def run_checks(job: Job, sol: FrameSolution, module=None) -> Results:
+    """Check every pin of ``job`` that has a stack, for every load case of ``sol``.
+
+    ``module`` stands in for the job's method module (same interface); pinchk.alternatives passes one
+    that records the columns the method kernels are given, to reuse them with alternative values.
+    """
+    mod = METHODS[job.method.name] if module is None else module
     variant = job.method.variant
     fac = factors_for(mod, job.method.factors)
     cases = sol.cases
