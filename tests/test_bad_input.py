@@ -546,3 +546,15 @@ def test_bad_command_line(tmp_path, capsys, argv):
     err = capsys.readouterr().err
     assert exc.value.code == 2
     assert "usage:" in err and "Traceback" not in err
+
+
+@pytest.mark.parametrize("command", ["compare", "size", "rate"])
+def test_every_command_refuses_the_catalogue(tmp_path, capsys, command):
+    """The other commands that read a job refuse every bad job of the catalogue the same way (exit 2)."""
+    path = tmp_path / "job.toml"
+    for name, text, fragments in CASES:
+        path.write_text(text, encoding="utf-8")
+        code = cli.main([command, str(path)])
+        err = capsys.readouterr().err
+        assert code == cli.EXIT_INPUT and "Traceback" not in err, (name, err)
+        assert fragments[0] in err, (name, err)
