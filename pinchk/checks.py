@@ -205,9 +205,13 @@ def _check_table(blocks, cases, dropped: list[int]) -> dict[str, object]:
     return {k: columns[k] for k in COLUMNS}
 
 
-def run_checks(job: Job, sol: FrameSolution) -> Results:
-    """Check every pin of ``job`` that has a stack, for every load case of ``sol``."""
-    mod = METHODS[job.method.name]
+def run_checks(job: Job, sol: FrameSolution, module=None) -> Results:
+    """Check every pin of ``job`` that has a stack, for every load case of ``sol``.
+
+    ``module`` stands in for the job's method module (same interface); pinchk.alternatives passes one
+    that records the columns the method kernels are given, to reuse them with alternative values.
+    """
+    mod = METHODS[job.method.name] if module is None else module
     variant = job.method.variant
     fac = factors_for(mod, job.method.factors)
     cases = sol.cases

@@ -39,7 +39,57 @@ def _parser() -> argparse.ArgumentParser:
                         "can read back through [forces] file")
     sub.add_parser("methods", help="list the design methods, their factors and defaults")
     sub.add_parser("materials", help="list the bundled materials and their sources")
+    _alternative_parsers(sub)
     return p
+
+
+def _alternative_parsers(sub) -> None:
+    """compare, size and rate (pinchk.alternatives); docs/sweeps.md describes them."""
+    def common(q):
+        q.add_argument("job", metavar="JOB", help="the job file (TOML), see docs/jobfile.md")
+        q.add_argument("--format", choices=["table", "json", "csv", "md"], default="table",
+                       help="view of the results (default: table; md: the table view as Markdown)")
+        q.add_argument("--output", metavar="PATH", help="write the view to PATH instead of the terminal")
+
+    c = sub.add_parser("compare", help="check a pin with alternative grades, materials, sizes or methods",
+                       description="Check one or more pins with each alternative (the product of the lists given) "
+                                   "and mark the lightest that passes. A list is comma-separated; 'all' means every "
+                                   "entry of the library that fits the size.")
+    common(c)
+    c.add_argument("--pin", action="append", metavar="NAME", help="a pin to compare (repeat; default: every pin)")
+    c.add_argument("--diameter", metavar="LIST", help="pin diameters, e.g. '30,36,40 mm' or a range '24:48:4 mm'")
+    c.add_argument("--pin-material", metavar="LIST", help="pin materials of data/materials.csv, or 'all'")
+    c.add_argument("--grade", metavar="LIST", help="bolt grades of data/bolt_grades.csv for the pin, or 'all'")
+    c.add_argument("--thickness", metavar="LIST", help="plate thicknesses, e.g. '12,16,20 mm'")
+    c.add_argument("--plate-material", metavar="LIST", help="plate materials of data/materials.csv, or 'all'")
+    c.add_argument("--member", action="append", metavar="NAME",
+                   help="the member whose plates --thickness and --plate-material change (repeat; default: every "
+                        "member with checked plates at the pin)")
+    c.add_argument("--method", metavar="LIST", help="design methods, each optionally with ':variant' (e.g. "
+                   "'AISC 360-16:LRFD', 'ASME BTH-1:B'), or 'all' (every method and variant; see pinchk methods)")
+
+    z = sub.add_parser("size", help="the smallest pin diameter and plate thickness of a series that pass",
+                       description="For each pin, the smallest diameter of a preferred series and, for it, the "
+                                   "thinnest plates of a plate series with the end distance and width the method's "
+                                   "detailing rules need, so that every check passes in every case; with the exact "
+                                   "limits found by root finding.")
+    common(z)
+    z.add_argument("--pin", action="append", metavar="NAME", help="a pin to size (repeat; default: every pin)")
+    z.add_argument("--pin-series", metavar="NAMES", help="pin series of data/size_series.csv, comma-separated "
+                   "(default: metric,metric-large; inch,inch-large for a job in US units)")
+    z.add_argument("--plate-series", metavar="NAMES", help="plate series (default: metric; inch for US units)")
+    z.add_argument("--only", choices=["pin", "plates"], help="size only the pin (plates as the job) or only the "
+                   "plates (pin as the job); default: both")
+
+    r = sub.add_parser("rate", help="the largest load multiplier for which every check passes",
+                       description="Scale the loads of a case, or the loads with a label, or every load, and find "
+                                   "the largest factor for which every check still passes, by root finding on full "
+                                   "runs.")
+    common(r)
+    r.add_argument("--case", metavar="NAME", help="scale the loads of this load case (default: every case)")
+    r.add_argument("--load", metavar="LABEL", help="scale the loads with this label (e.g. hook), in every case")
+    r.add_argument("--max-factor", type=float, default=1000.0, metavar="X",
+                   help="stop looking above this factor (default 1000)")
 
 
 def _write(path: str, text: str, protect: list[str]) -> None:
@@ -140,7 +190,107 @@ def _cmd_materials(a) -> int:
     return 0
 
 
-COMMANDS = {"run": _cmd_run, "methods": _cmd_methods, "materials": _cmd_materials}
+def _names(text, every, what, job_path):
+    from .alternatives import Every
+    from .errors import InputError, Problem
+
+    if text is None:
+        return None
+    if text.strip().lower() == "all":
+        return Every(every)
+    names = [x.strip() for x in text.split(",") if x.strip()]
+    bad = [x for x in names if x not in every]
+    if bad:
+        raise InputError(Problem("<command line>", "", what, f"unknown: {', '.join(bad)}; known: {', '.join(every)}"))
+    return names
+
+
+def _methods(text):
+    """--method: names (with an optional ':variant'), or 'all' (every method and variant)."""
+    from .alternatives import method_key, method_names
+    from .errors import InputError, Problem
+    from .methods import METHODS
+
+    if text is None:
+        return None
+    if text.strip().lower() == "all":
+        return method_names()
+    names = [x.strip() for x in text.split(",") if x.strip()]
+    bad = [x for x in names if method_key(x) is None]
+    if bad:
+        raise InputError(Problem("<command line>", "", "--method", f"unknown: {', '.join(bad)}; known: "
+                                 f"{', '.join(METHODS)}, each optionally with ':variant' "
+                                 f"({', '.join(method_names())})"))
+    return names
+
+
+def _emit(a, kind, result, ok: bool, protect: list[str], verdict: str) -> int:
+    from .report.alternatives import VIEWS
+
+    text = VIEWS[kind][a.format](result)
+    if a.output:
+        _write(a.output, text, protect)
+        print(f"{verdict}\nwrote {a.output}\ncaution: {CAUTION_SHORT}")
+    else:
+        sys.stdout.write(text)
+    return EXIT_PASS if ok else EXIT_FAIL
+
+
+def _protect(job) -> list[str]:
+    return [job.path] + ([job.forces.path] if job.forces is not None else [])
+
+
+def _cmd_compare(a) -> int:
+    from . import alternatives as alt
+    from . import load_job
+    from .units import UNIT_SYSTEMS
+
+    job = load_job(a.job)
+    lu = UNIT_SYSTEMS[job.output_units]["length"]
+    kw = {
+        "diameters": alt.parse_lengths(a.diameter, lu, "--diameter") if a.diameter else None,
+        "pin_materials": _names(a.pin_material, alt.material_names(), "--pin-material", a.job),
+        "grades": _names(a.grade, alt.bolt_grade_names(), "--grade", a.job),
+        "thicknesses": alt.parse_lengths(a.thickness, lu, "--thickness") if a.thickness else None,
+        "plate_materials": _names(a.plate_material, alt.material_names(), "--plate-material", a.job),
+        "methods": _methods(a.method),
+        "members": a.member,
+    }
+    cmp = alt.compare(job, pins=a.pin, **kw)
+    ok = all(cmp.marked.values()) if cmp.ranked else True
+    n = sum(len(s.options) for s in cmp.sweeps.values())
+    return _emit(a, "compare", cmp, ok, _protect(job),
+                 f"compared {n} alternatives of {len(cmp.sweeps)} pin(s)"
+                 + ("" if ok else "; some pin has none that passes"))
+
+
+def _cmd_size(a) -> int:
+    from . import alternatives as alt
+    from . import load_job
+
+    job = load_job(a.job)
+    what = ("pin", "plates") if a.only is None else (a.only,)
+    sz = alt.size(job, pins=a.pin, pin_series=a.pin_series, plate_series=a.plate_series, what=what)
+    return _emit(a, "size", sz, sz.found, _protect(job),
+                 "FOUND: every pin has a size that passes" if sz.found
+                 else "NOT FOUND: some pin has no size that passes")
+
+
+def _cmd_rate(a) -> int:
+    from . import alternatives as alt
+    from . import load_job
+    from .errors import InputError, Problem
+
+    if not a.max_factor > 1.0:
+        raise InputError(Problem("<command line>", "", "--max-factor", f"must be > 1, got {a.max_factor:g}"))
+    job = load_job(a.job)
+    rt = alt.rate(job, case=a.case, label=a.load, factor_max=a.max_factor)
+    ok = rt.factor >= 1.0
+    return _emit(a, "rate", rt, ok, _protect(job), f"largest factor {rt.factor:.4f} on {rt.what}")
+
+
+COMMANDS = {"run": _cmd_run, "methods": _cmd_methods, "materials": _cmd_materials, "compare": _cmd_compare,
+            "size": _cmd_size, "rate": _cmd_rate}
 
 
 def main(argv: list[str] | None = None) -> int:

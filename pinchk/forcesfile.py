@@ -115,8 +115,9 @@ def _force(value, unit: str | None) -> float:
         except ValueError:
             pass
         else:
-            if math.isfinite(v):
-                return v * _factor(unit)
+            si = v * _factor(unit)
+            if math.isfinite(si) and abs(si) <= 1e30:  # else to_si below says what is wrong
+                return si
     if unit is None:
         bare = isinstance(value, (int, float)) and not isinstance(value, bool)
         if isinstance(value, str):

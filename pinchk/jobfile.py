@@ -15,7 +15,7 @@ from . import materials, sections
 from .errors import Collector, InputError, Problem
 from .model import (GROUND, PIN_LOAD, Body, Bushing, Case, Job, Lateral, Link, Load, Material, MethodChoice,
                     Pin, Place, Plate, Support)
-from .units import G0, UNIT_SYSTEMS, QuantityError, check_unit, to_si
+from .units import G0, MIN_SIZE, UNIT_SYSTEMS, QuantityError, check_unit, to_si
 
 MAX_FILE_BYTES = 4 * 1024 * 1024  # a job file is text typed by a person; anything larger is refused
 
@@ -123,6 +123,10 @@ class _Reader:
             return None
         if positive and not v > 0:
             self.bad(table, field, f"must be greater than zero, got {data[field]!r}")
+            return None
+        if positive and v < MIN_SIZE:  # sizes divide: 1e-200 mm would make d**2 vanish
+            self.bad(table, field, f"{data[field]!r} is too small for pinchk to compute with "
+                     f"(at least {MIN_SIZE:g} in SI units); check the value and its unit")
             return None
         if nonneg and v < 0:
             self.bad(table, field, f"must not be negative, got {data[field]!r}")
@@ -234,6 +238,8 @@ def parse_job(data: dict[str, Any], path: str = "<job>", text: str = "") -> Job:
     supports = _supports(r, data, bodies, pins_partial, required=forces is None) if not frameless else {}
     loads = _loads(r, data, bodies, pins_partial, cases, required=forces is None) if not frameless else []
     pins = _pins_stack(r, pin_tables, pins_partial, links, supports, loads, job_materials, frameless, cases)
+    _names_and_connections(r, data, solved_here=forces is None)
+    _modulus_where_needed(r, data, method, pins)
     from . import jobfile_lifting
 
     combos = jobfile_lifting.combinations(r, data, cases)
@@ -249,6 +255,74 @@ def parse_job(data: dict[str, Any], path: str = "<job>", text: str = "") -> Job:
         r.c.problems += problems
     r.c.raise_if_any()
     return job
+
+
+def _modulus_where_needed(r: _Reader, data: dict, method: MethodChoice, pins: dict[str, Pin]) -> None:
+    """A job material must give E where the method uses it, not take steel's 210 GPa unasked.
+
+    EN 1993-1-8 eq (3.15) (contact stress of a replaceable pin) is the only check that uses E.
+    """
+    own = data.get("material") if isinstance(data.get("material"), dict) else {}
+    if method.name != "EN 1993-1-8":
+        return
+    told: set[str] = set()
+    for pname, pin in pins.items():
+        if not pin.replaceable:
+            continue
+        for i, plate in enumerate(pin.stack, start=1):
+            m = plate.material
+            t = own.get(m.name) if m is not None else None
+            if isinstance(t, dict) and "E" not in t and m.name not in told:
+                told.add(m.name)
+                r.bad(f"material.{m.name}", "E", f"material {m.name} gives no modulus E, and the contact "
+                      f"stress check of EN 1993-1-8 eq (3.15) needs it (replaceable pin {pname}, plate #{i}); "
+                      "give it, e.g. E = \"210 GPa\" for steel")
+
+
+def _names_and_connections(r: _Reader, data: dict, solved_here: bool = True) -> None:
+    """A pin's name must not be a body's or a link's; every body and pin must be held by something
+    (when the frame is solved here: a job that reads its forces from a file needs no connections).
+
+    Read from the raw tables, so a body whose pin or link has some other mistake is not reported
+    again as unconnected.
+    """
+    def names(kind: str) -> list[str]:
+        t = data.get(kind)
+        return [k for k, v in t.items() if isinstance(v, dict)] if isinstance(t, dict) else []
+
+    bodies, links = set(names("body")), set(names("link"))
+    for pin in names("pin"):
+        for other, kind in ((bodies, "body"), (links, "link")):
+            if pin in other:
+                r.bad(f"pin.{pin}", "", f"the name '{pin}' is used by a {kind} too; names of bodies, links "
+                      "and pins must be unique")
+    cases = set(names("case"))
+    for combo in names("combination"):  # the results' case column would not say which is meant
+        if combo in cases:
+            r.bad(f"combination.{combo}", "", f"the name '{combo}' is used by a load case too; name the "
+                  "combination differently")
+    if not solved_here:
+        return
+    used: set[str] = set()
+    refs: list[object] = []
+    for kind, field in (("pin", "joins"), ("link", "ends"), ("support", "at")):
+        t = data.get(kind)
+        for v in (t.values() if isinstance(t, dict) else []):
+            if isinstance(v, dict):
+                ref = v.get(field)
+                refs += ref if isinstance(ref, list) else [ref]
+    for ref in refs:
+        if isinstance(ref, str) and "." in ref:
+            used.add(ref.partition(".")[0])
+    for body in names("body"):
+        if body not in used:
+            r.bad(f"body.{body}", "", f"body {body} is connected to nothing: no pin joins it, no link ends "
+                  "on it and no support holds it; join it to the structure or remove it")
+    met = {ref for ref in refs if isinstance(ref, str) and "." not in ref}
+    for pin in names("pin"):
+        if not data["pin"][pin].get("joins") and pin not in met:
+            r.bad(f"pin.{pin}", "", f"pin {pin} is connected to nothing: it joins no body, and no link or "
+                  "support meets it")
 
 
 def _method(r: _Reader, data: dict) -> MethodChoice:
@@ -276,6 +350,8 @@ def _method(r: _Reader, data: dict) -> MethodChoice:
                   f"factors: {', '.join(m.FACTORS)}")
         elif isinstance(v, bool) or not isinstance(v, (int, float)) or not math.isfinite(v) or v <= 0:
             r.bad("method.factors", k, f"a factor must be a finite number greater than zero, got {v!r}")
+        elif not 1e-3 <= v <= 1e3:  # a typo, not a factor: 1e308 made every capacity overflow
+            r.bad("method.factors", k, f"a factor must lie between 0.001 and 1000, got {v!r}")
         else:
             factors[k] = float(v)
     return MethodChoice(name, design, factors)
@@ -654,7 +730,11 @@ def _pins_stack(r: _Reader, pt: dict, frame: dict, links, supports, loads, own, 
                       f"members here: {', '.join(sorted(at_pin[name]))}")
                 member = None
             th = r.qty(pw, p, "thickness", "length", positive=True)
-            gap = r.qty(pw, p, "gap", "length", required=False, nonneg=True) or 0.0
+            gap = r.qty(pw, p, "gap", "length", required=False) or 0.0
+            if gap < 0:
+                r.bad(pw, "gap", f"a negative gap ({p['gap']!r}) would make this plate overlap the one before "
+                      "it; plates are listed in order along the pin and the gap is the clear space to the "
+                      "previous plate, zero or more")
             ph = r.qty(pw, p, "hole", "length", required=False, positive=True)
             ph = ph if ph is not None else hole
             if ph is not None and d is not None and ph < d:

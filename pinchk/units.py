@@ -61,6 +61,13 @@ G0 = 9.80665
 # the parser work for long (at most 40 characters, digits, letters, space and . + - * / ^ ( ) only).
 _MAX_LEN = 40
 _ALLOWED = re.compile(r"^[0-9A-Za-z.+\-*/^() µ°]+$")
+# A unit expression starts with a unit name or a bracket, and holds no '.' (no unit name has one)
+_UNIT_START = re.compile(r"^[A-Za-zµ°(]")
+# Products of a few SI magnitudes must stay finite in double precision, so every magnitude read is
+# bounded ("1e306 t" is a finite number but its weight overflows to infinity); sizes, which divide,
+# are also bounded below (MIN_SIZE, applied by the job-file reader).
+_MAX_SI = 1e30
+MIN_SIZE = 1e-30
 
 
 class QuantityError(ValueError):
@@ -77,6 +84,9 @@ _POWER_OK = re.compile(r"[A-Za-zµ°]\s*(?:\^|\*\*)\s*[+-]?\d{1,2}(?![\d.])(?!\s
 @lru_cache(maxsize=256)
 def _unit_factor(unit_text: str, dim: str) -> float:
     """SI factor of a unit expression, checked for dimension (cached: a job repeats its units)."""
+    packed = "".join(unit_text.split())
+    if "." in packed or not _UNIT_START.match(packed):  # pint reads ".m" and "..mm" as m and mm
+        raise QuantityError(f"'{unit_text}' is not a unit pinchk reads; write for example {_example(dim)}")
     if len(_POWER_OP.findall(unit_text)) != len(_POWER_OK.findall(unit_text)):
         raise QuantityError(
             f"'{unit_text}': a power must be a unit raised to a whole number of at most two digits, "
@@ -172,8 +182,11 @@ def to_si(value: object, dim: str, default_unit: str | None = None) -> float:
             f"{unit_text!r} is not a unit pinchk knows ({type(exc).__name__}); write for example {_example(dim)}"
         ) from None
     si = number * factor
-    if not math.isfinite(si):
-        raise QuantityError(f"{value!r} is not a finite quantity: {number!r} {unit_text} is too large in SI units")
+    if not math.isfinite(si) or abs(si) > _MAX_SI:
+        raise QuantityError(
+            f"{value!r} is too large: pinchk computes with finite magnitudes of at most 1e30 "
+            f"{SI_UNIT[dim]}; check the value and its unit"
+        )
     return si
 
 
