@@ -87,6 +87,9 @@ class _Reader:
         self.text = text
         self.c = Collector(path)
         self.default_units: dict[str, str] = {}
+        # names ("body", "body.point", "pin") whose own table had a problem already reported: a reference
+        # to one is not reported again, so one mistake gives one message, not a cascade
+        self.unreadable: set[str] = set()
         self.misspelt: set[tuple[str, str]] = set()  # (table, field) a misspelt name stands for
 
     def bad(self, table: str, field: str, message: str) -> None:
@@ -414,7 +417,10 @@ def _bodies(r: _Reader, data: dict, required: bool = True) -> dict[str, Body]:
             xy = _xy(r, where, f"points.{pn}", v)
             if xy is not None:
                 points[pn] = xy
+            else:
+                r.unreadable.add(f"{name}.{pn}")
         out[name] = Body(name, points)
+    r.unreadable.update(n for n in bt if n not in out)
     return out
 
 
@@ -438,6 +444,8 @@ def _ref(r: _Reader, where: str, field: str, ref, bodies: dict[str, Body], pins:
     """Resolve "body.point" or a pin name to a Place."""
     if not isinstance(ref, str):
         r.bad(where, field, f"expected \"body.point\" or a pin name, got {ref!r}")
+        return None
+    if ref in r.unreadable or ref.partition(".")[0] in r.unreadable:
         return None
     if "." in ref:
         bname, _, pname = ref.partition(".")
@@ -491,6 +499,12 @@ def _pins_frame(r: _Reader, pt: dict, bodies: dict[str, Body]) -> dict[str, dict
             r.bad(where, "joins", "a body is listed twice; a pin joins each body once")
             continue
         out[name] = {"xy": xy, "bodies": tuple(names)}
+    for name, t in pt.items():
+        if name not in out:
+            r.unreadable.add(name)
+            if isinstance(t, dict):  # its place could not be read; its sizes still can be
+                r.qty(f"pin.{name}", t, "diameter", "length", required=False, positive=True)
+                r.qty(f"pin.{name}", t, "hole", "length", required=False, positive=True)
     return out
 
 
@@ -536,6 +550,7 @@ def _links(r: _Reader, data: dict, bodies, pins) -> dict[str, Link]:
             r.bad(where, "ends", "the two ends are at the same place; a link needs a length")
             continue
         out[name] = Link(name, kind, (places[0], places[1]))
+    r.unreadable.update(n for n in r.table(data, "link", "") if n not in out)
     return out
 
 
@@ -578,6 +593,9 @@ def _supports(r: _Reader, data: dict, bodies, pins, required: bool = True) -> di
                 continue
             at_pin[place.pin] = name
         out[name] = Support(name, kind, place, normal)
+    for name, t_ in st.items():  # a support that could not be read leaves its pin's "ground" unchecked
+        if name not in out and isinstance(t_, dict) and isinstance(t_.get("at"), str):
+            r.unreadable.add(f"{GROUND}@{t_['at']}")
     if not st and (bodies or pins) and required:
         r.bad("support", "", "no supports: a frame needs at least one [support.NAME] to stand on")
     return out
@@ -725,7 +743,9 @@ def _pins_stack(r: _Reader, pt: dict, frame: dict, links, supports, loads, own, 
                 continue
             r.keys(pw, p, "plate")
             member = r.text_field(pw, p, "member", required=True)
-            if member is not None and not frameless and member not in at_pin[name]:
+            if member is not None and (member in r.unreadable or f"{member}@{name}" in r.unreadable):
+                member = None  # its own table had a problem, already reported
+            elif member is not None and not frameless and member not in at_pin[name]:
                 r.bad(pw, "member", f"'{member}' does not meet pin {name}{suggest(member, at_pin[name])}; "
                       f"members here: {', '.join(sorted(at_pin[name]))}")
                 member = None

@@ -307,3 +307,28 @@ def test_plate_shares_must_account_for_the_whole_force(make_job, shares, message
 def test_plate_shares_adding_to_one_are_read(make_job):
     pin = make_job(with_ground_shares((0.7, 0.3))).pins["PA"]
     assert [p.share for p in pin.stack] == [0.7, None, 0.3]
+
+
+def test_one_mistake_gives_one_message_not_a_cascade():
+    """A misspelt support kind at a pin must not also report the pin's "ground" plate as meeting nothing,
+    and a point that cannot be read must not also be reported missing where a pin joins it."""
+    from pathlib import Path
+
+    import pytest
+
+    from pinchk import load_job
+    from pinchk.errors import InputError
+
+    with pytest.raises(InputError) as e:
+        load_job(Path(__file__).parent / "data" / "cascade_support_kind.toml")
+    assert len(e.value.problems) == 1 and "did you mean 'pinned'" in str(e.value)
+
+    from pinchk.jobfile import parse_job
+
+    data = {"job": {"title": "x"}, "method": {"name": "EN 1993-1-8"}, "body": {"a": {"points": {"A": [0, 0]}}},
+            "pin": {"P": {"joins": ["a.A"], "diameter": "40 kN"}}}
+    with pytest.raises(InputError) as e:
+        parse_job(data, "mem.toml")
+    text = str(e.value)
+    assert "no point" not in text  # the unreadable point is reported once, where it is written
+    assert "field 'diameter'" in text and "is a unit of force" in text  # the pin's own sizes still checked
