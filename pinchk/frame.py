@@ -472,15 +472,22 @@ def solve(job: Job) -> FrameSolution:
     Raises:
         StructureError: a mechanism, an indeterminate structure, or a cable in compression.
     """
+    rows, cols, vals, shape, b, num = _triplets(job)
+    n = max(shape)
+    if n <= min(SVD_FIRST_LIMIT, DENSE_RANK_LIMIT):
+        # a small frame is solved dense: the SVD decides determinacy, and the run needs no scipy import
+        A = np.zeros(shape)
+        np.add.at(A, (np.asarray(rows, dtype=np.intp), np.asarray(cols, dtype=np.intp)), vals)
+        _diagnose(job, A, num)  # raises for a mechanism or an indeterminate frame
+        return _collect(job, np.linalg.solve(A, b), num)
+
     import scipy.sparse as sp
     import scipy.sparse.linalg as spla
 
-    rows, cols, vals, shape, b, num = _triplets(job)
     A = sp.csc_matrix((vals, (rows, cols)), shape=shape)
-    n = max(shape)
-    checked = n <= min(SVD_FIRST_LIMIT, DENSE_RANK_LIMIT) or shape[0] != shape[1]
+    checked = shape[0] != shape[1]
     if checked:
-        _diagnose(job, A, num)  # raises for a mechanism or an indeterminate frame (always when not square)
+        _diagnose(job, A, num)  # raises: a frame that is not square is a mechanism or indeterminate
     try:
         lu = spla.splu(A)
     except RuntimeError:

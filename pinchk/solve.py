@@ -10,15 +10,20 @@ from __future__ import annotations
 from dataclasses import replace
 
 import numpy as np
-import scipy.sparse as sp
 
-from . import frame, stiffness
+from . import frame
 from .errors import Problem, StructureError
 from .frame import FrameSolution
 from .model import Job
 
 #: The solvers a job can force, by the name used in [job] solver.
-SOLVERS = {"statics": frame.solve, "stiffness": stiffness.solve}
+def _stiffness_solve(job: Job) -> FrameSolution:
+    from . import stiffness  # imported only when a frame needs it (scipy.sparse.linalg is slow to load)
+
+    return stiffness.solve(job)
+
+
+SOLVERS = {"statics": frame.solve, "stiffness": _stiffness_solve}
 #: Largest equilibrium matrix whose rank is found here by a dense SVD.
 DENSE_RANK_LIMIT = 2000
 
@@ -27,6 +32,8 @@ def degree_of_indeterminacy(job: Job) -> tuple[int, int] | None:
     """(mechanism degrees of freedom, degree of static indeterminacy) of the rigid-body equations,
     or None when the system is too large for a dense rank."""
     try:
+        import scipy.sparse as sp
+
         A = sp.csc_matrix(frame.assemble(job)[0])
     except (AttributeError, TypeError, ValueError, IndexError):  # frame's assembly changed its form
         return None
@@ -93,6 +100,6 @@ def _solve(job: Job, solver: str | None = None) -> FrameSolution:
         if not indeterminate:
             raise
         try:
-            return stiffness.solve(job)
+            return _stiffness_solve(job)
         except StructureError as exc2:
             raise StructureError(exc.problems + exc2.problems) from None
