@@ -3,8 +3,9 @@
 from __future__ import annotations
 
 import gc
+from bisect import bisect_right
+from collections.abc import Sequence
 from dataclasses import dataclass, field
-from itertools import repeat
 
 import numpy as np
 import numpy.typing as npt
@@ -75,7 +76,7 @@ class Results:
     def to_frame(self):
         import pandas as pd
 
-        return pd.DataFrame({k: list(v) if isinstance(v, tuple) else v for k, v in self.columns.items()})
+        return pd.DataFrame({k: v if isinstance(v, np.ndarray) else list(v) for k, v in self.columns.items()})
 
 
 _STATUS = np.array(["FAIL", "pass"], dtype=object)
@@ -128,16 +129,41 @@ def _note_text(note: str, row_notes) -> list[str]:
     return joined[inv].tolist()
 
 
-def _term_tuples(sym: str, kd: str, v, mask, k: int, made: dict) -> list[tuple]:
-    """(sym, kd, value) for each kept row of a check's named input, made once per (input, mask)."""
-    key = (sym, kd, id(v), np.packbits(mask).tobytes())
-    hit = made.get(key)
-    if hit is not None and hit[0] is v:
-        return hit[1]
-    vals = np.broadcast_to(np.asarray(v, float), mask.shape)[mask].tolist()
-    out = list(zip(repeat(sym, k), repeat(kd, k), vals, strict=False))
-    made[key] = (v, out)  # v kept, so its id stays its own while the table is built
-    return out
+class TermsColumn(Sequence):
+    """The named inputs of each row's formula, ((symbol, kind, SI value), ...) per row.
+
+    Kept per check as the method's own arrays and the rows it kept; a row's tuple is made only when it
+    is read (a report reads them, a sweep of millions of rows does not).
+    """
+
+    def __init__(self) -> None:
+        self._starts: list[int] = []
+        self._blocks: list[list] = []  # [mask, kept-row indices or None (made on first read), terms]
+        self._n = 0
+
+    def add(self, k: int, mask, terms) -> None:
+        self._starts.append(self._n)
+        self._blocks.append([mask, None, terms])
+        self._n += k
+
+    def __len__(self) -> int:
+        return self._n
+
+    def __getitem__(self, i):
+        if isinstance(i, slice):
+            return [self[j] for j in range(*i.indices(self._n))]
+        if i < 0:
+            i += self._n
+        if not 0 <= i < self._n:
+            raise IndexError(i)
+        b = bisect_right(self._starts, i) - 1
+        block = self._blocks[b]
+        mask, rows, terms = block
+        if rows is None:
+            rows = block[1] = np.flatnonzero(mask)
+        r = rows[i - self._starts[b]]
+        return tuple((sym, kd, float(np.broadcast_to(np.asarray(v, float), mask.shape)[r]))
+                     for sym, kd, v in terms)
 
 
 def _check_table(blocks, cases, dropped: list[int]) -> dict[str, object]:
@@ -165,9 +191,9 @@ def _check_table(blocks, cases, dropped: list[int]) -> dict[str, object]:
                 util = np.where(cap > 0, dem / np.where(cap > 0, cap, 1.0), np.inf)
             own_note = notes is None or any(w in ch.name for w in joint.OUTLINE_FREE)
             parts.append((ch, mask, dem, cap, util, pins_, names, stack_text, None if own_note else notes))
-    made: dict[tuple, tuple] = {}  # (input, rows kept) -> (the input, its row tuples)
     total = sum(len(p[4]) for p in parts)
-    txt = {k: [None] * total for k in COLUMNS if k not in ("demand", "capacity", "utilization")}
+    txt = {k: [None] * total for k in COLUMNS if k not in ("demand", "capacity", "utilization", "terms")}
+    terms = TermsColumn()
     at = 0
     for ch, mask, _, _, util, pins_, names, stack_text, notes in parts:
         k = len(util)
@@ -192,16 +218,14 @@ def _check_table(blocks, cases, dropped: list[int]) -> dict[str, object]:
             txt["note"][s] = _note_text(ch.note, np.asarray(notes, dtype=object)[row])
         txt["worked_demand"][s] = [ch.worked[0]] * k
         txt["worked_capacity"][s] = [ch.worked[1]] * k
-        # the formula's named inputs, row by row: ((symbol, kind, SI value), ...), zipped in C; the
-        # checks of a part share most inputs and masks, so each (input, mask) is made into tuples once
-        per_term = [_term_tuples(sym, kd, v, mask, k, made) for sym, kd, v in ch.terms]
-        txt["terms"][s] = list(zip(*per_term, strict=True)) if per_term else [()] * k
+        terms.add(k, mask, ch.terms)  # the formula's named inputs, made into row tuples when read
         at += k
     columns: dict[str, object] = {}
     for key, pos in (("demand", 2), ("capacity", 3), ("utilization", 4)):
         columns[key] = np.concatenate([p[pos] for p in parts]) if parts else np.zeros(0)
     for key in txt:
         columns[key] = tuple(txt[key])
+    columns["terms"] = terms
     return {k: columns[k] for k in COLUMNS}
 
 
