@@ -620,9 +620,9 @@ def source_pins(job, pin_tables: dict, frame_known: bool) -> tuple[dict[str, tup
     required: set[str] = set()
     frame_members: dict[str, list[str]] = {}
     if job.bodies and frame_known:
-        from .frame import _members
+        from .frame import members_at_pins
 
-        frame_members = _members(job)
+        frame_members = members_at_pins(job)
     for name, t in pin_tables.items():
         plates = t.get("plate", []) if isinstance(t, dict) else []
         plates = plates if isinstance(plates, list) else []

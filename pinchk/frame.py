@@ -106,7 +106,7 @@ class _Index:
         return out
 
 
-def _members(job: Job) -> dict[str, list[str]]:
+def members_at_pins(job: Job) -> dict[str, list[str]]:
     """Members at each pin, in a fixed order: bodies, links, ground, load."""
     members = {name: list(p.bodies) for name, p in job.pins.items()}
     for link in job.links.values():
@@ -279,7 +279,7 @@ def _triplets(job: Job):
     """Equilibrium equations as COO triplets ``(rows, cols, vals)``, the shape, ``b`` and the numbering."""
     cases = tuple(job.cases)
     case_ix = {c: i for i, c in enumerate(cases)}
-    members = _members(job)
+    members = members_at_pins(job)
     body_names = list(job.bodies)
     pin_names = list(job.pins)
     body_ix = {name: i for i, name in enumerate(body_names)}

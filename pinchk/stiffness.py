@@ -42,7 +42,7 @@ import scipy.sparse as sp
 import scipy.sparse.linalg as spla
 
 from .errors import Problem, StructureError
-from .frame import FrameSolution, PinForces, equilibrium_residual
+from .frame import FrameSolution, PinForces, equilibrium_residual, members_at_pins
 from .model import GROUND, PIN_LOAD, Body, Job, Place
 
 SOLVER = "direct stiffness (2D linear-elastic frame, pinned releases)"
@@ -93,22 +93,6 @@ def _pin_of_point(job: Job) -> dict[tuple[str, str], str]:
             best = min(pts, key=lambda k: math.dist(pts[k], pin.xy))
             out[(b, best)] = pname
     return out
-
-
-def _members_at_pins(job: Job) -> dict[str, list[str]]:
-    """Members at each pin in the order pinchk.frame gives them: bodies, links, ground, load."""
-    members = {name: list(p.bodies) for name, p in job.pins.items()}
-    for link in job.links.values():
-        for end in link.ends:
-            if end.pin is not None:
-                members[end.pin].append(link.name)
-    for s in job.supports.values():
-        if s.at.pin is not None:
-            members[s.at.pin].append(GROUND)
-    for load in job.loads:
-        if load.at.pin is not None and load.body is None and PIN_LOAD not in members[load.at.pin]:
-            members[load.at.pin].append(PIN_LOAD)
-    return members
 
 
 def _check_bodies(job: Job) -> None:
@@ -527,7 +511,7 @@ def _collect(job: Job, m: _Model, U, tension, reaction, slack) -> StiffnessResul
             pin_load[load.at.pin][cases.index(load.case)] += load.force
 
     pins: dict[str, PinForces] = {}
-    for pname, mem in _members_at_pins(job).items():
+    for pname, mem in members_at_pins(job).items():
         f = np.zeros((n_case, len(mem), 2))
         for k, name in enumerate(mem):
             if name in job.pins[pname].bodies:
