@@ -13,8 +13,23 @@ from typing import Any
 
 from . import materials, sections
 from .errors import Collector, InputError, Problem
-from .model import (GROUND, PIN_LOAD, Body, Bushing, Case, Job, Lateral, Link, Load, Material, MethodChoice,
-                    Pin, Place, Plate, Support)
+from .model import (
+    GROUND,
+    PIN_LOAD,
+    Body,
+    Bushing,
+    Case,
+    Job,
+    Lateral,
+    Link,
+    Load,
+    Material,
+    MethodChoice,
+    Pin,
+    Place,
+    Plate,
+    Support,
+)
 from .units import G0, MIN_SIZE, UNIT_SYSTEMS, QuantityError, check_unit, to_si
 
 MAX_FILE_BYTES = 4 * 1024 * 1024  # a job file is text typed by a person; anything larger is refused
@@ -781,7 +796,8 @@ def _pins_stack(r: _Reader, pt: dict, frame: dict, links, supports, loads, own, 
                 end = r.qty(pw, p, "end", "length", required=shape != "polygon" and not offset, positive=True)
                 en_type = r.text_field(pw, p, "en_type", choices=["A", "B"], default="A")
                 if ph is not None and width is not None and width <= ph:
-                    r.bad(pw, "width", f"the plate ({p['width']}) is not wider than its hole; nothing is left beside it")
+                    r.bad(pw, "width", f"the plate ({p['width']}) is not wider than its hole; "
+                          "nothing is left beside it")
                 if ph is not None and end is not None and end <= ph / 2 and not offset:
                     r.bad(pw, "end", f"the end distance ({p['end']}) lies inside the hole; it is measured from "
                           "the hole centre and must exceed half the hole diameter")

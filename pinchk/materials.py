@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import csv
 from dataclasses import dataclass
-from functools import lru_cache
+from functools import cache
 from pathlib import Path
 
 from .model import Material
@@ -31,7 +31,7 @@ def read_rows(filename: str) -> list[dict[str, str]]:
     return list(csv.DictReader(lines))
 
 
-@lru_cache(maxsize=None)
+@cache
 def library() -> dict[str, tuple[MaterialRow, ...]]:
     """The bundled material library: name -> rows by size."""
     out: dict[str, list[MaterialRow]] = {}

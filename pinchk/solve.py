@@ -16,6 +16,7 @@ from .errors import Problem, StructureError
 from .frame import FrameSolution
 from .model import Job
 
+
 #: The solvers a job can force, by the name used in [job] solver.
 def _stiffness_solve(job: Job) -> FrameSolution:
     from . import stiffness  # imported only when a frame needs it (scipy.sparse.linalg is slow to load)
