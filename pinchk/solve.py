@@ -49,8 +49,38 @@ def degree_of_indeterminacy(job: Job) -> tuple[int, int] | None:
 def solve(job: Job, solver: str | None = None) -> FrameSolution:
     """Solve the frame of ``job`` (see ``_solve``), with a warning for every roller that would pull."""
     sol = _solve(job, solver)
-    lifts = roller_uplift(job, sol)
-    return replace(sol, warnings=sol.warnings + lifts) if lifts else sol
+    extra = roller_uplift(job, sol) + force_amplification(job, sol)
+    return replace(sol, warnings=sol.warnings + extra) if extra else sol
+
+
+#: Joint forces more than this many times the largest load point to a structure close to a mechanism.
+AMPLIFICATION_WARN = 100.0
+
+
+def force_amplification(job: Job, sol: FrameSolution) -> tuple[str, ...]:
+    """A warning where joint forces dwarf the loads (nearly parallel links, nearly collinear members).
+
+    Statics then still balances every body, but the forces depend on small differences of geometry, so
+    a small error in the coordinates gives a large error in the forces (common practice: check it).
+    """
+    load = max([float(np.hypot(*ld.force)) for ld in job.loads] + [0.0])
+    if not load > 0:
+        return ()
+    worst, where = 0.0, ""
+    for pname, pf in sol.pins.items():
+        m = float(np.abs(pf.force).max(initial=0.0))
+        if m > worst:
+            worst, where = m, f"pin {pname}"
+    for lname, tension in sol.links.items():
+        m = float(np.abs(tension).max(initial=0.0))
+        if m > worst:
+            worst, where = m, f"link {lname}"
+    ratio = worst / load
+    if ratio <= AMPLIFICATION_WARN:
+        return ()
+    return (f"the largest joint force ({where}, {worst / 1e3:.4g} kN) is {ratio:.3g} times the largest load: "
+            f"the structure is close to a mechanism (nearly parallel links or nearly collinear members), "
+            f"so its forces hang on small differences of geometry; check the coordinates",)
 
 
 def roller_uplift(job: Job, sol: FrameSolution) -> tuple[str, ...]:

@@ -550,3 +550,18 @@ def test_a_roller_that_pulls_is_flagged():
     sol = solve(job)
     assert sol.supports["b"][0, 1] == pytest.approx(-15e3, rel=1e-12)
     assert len(sol.warnings) == 1 and "roller b pulls" in sol.warnings[0] and "-15 kN" in sol.warnings[0]
+
+
+def test_forces_that_dwarf_the_loads_are_flagged():
+    """Two links sagging 1 mm over 1 m each under 1 kN: T = P / (2 sin θ), sin θ = 1/√(1000² + 1)
+    (hand statics of the pin), so T ≈ 500 kN, 500 times the load; the run warns (common practice)."""
+    import math
+    from pathlib import Path
+
+    import pinchk
+    from pinchk.solve import solve
+
+    sol = solve(pinchk.load_job(Path(__file__).parent / "data" / "near_collinear.toml"))
+    sin = 1 / math.hypot(1000, 1)
+    assert sol.links["left"][0] == pytest.approx(1e3 / (2 * sin), rel=1e-9)
+    assert any("500 times the largest load" in w for w in sol.warnings)
