@@ -23,7 +23,7 @@ from dataclasses import replace
 import numpy as np
 
 from .errors import Problem, StructureError
-from .frame import FrameSolution, PinForces, equilibrium_residual
+from .frame import FrameSolution, PinForces, compressed_cable, equilibrium_residual
 from .model import Case, Combination, Job, StackFactor
 
 #: The factors of the stack a job may give, with what each is for (all default to 1.0, common practice).
@@ -81,15 +81,12 @@ def combine(job: Job, sol: FrameSolution) -> tuple[Job, FrameSolution]:
     if solved_here and not residual <= 1e-9:
         raise StructureError(Problem(job.path, "", "", f"the combined solution is out of balance (relative "
                                      f"residual {residual:.2e}): this is a bug in pinchk, not in the input"))
-    for lname, link in job.links.items():
-        if link.kind != "cable":
-            continue
-        scale = max(np.abs(links[lname]).max(), 1.0)
-        for k, t in enumerate(links[lname]):
-            if t < -1e-9 * scale:
-                raise StructureError(Problem(job.path, f"combination.{names[k]}", "cases", (
-                    f"cable {lname} would be in compression ({t / 1e3:.6g} kN) in combination '{names[k]}': "
-                    f"a cable carries tension only; change the combination's factors or make it a link")))
+    found = compressed_cable(job, links)
+    if found is not None:
+        lname, k, tk = found
+        raise StructureError(Problem(job.path, f"combination.{names[k]}", "cases", (
+            f"cable {lname} would be in compression ({tk / 1e3:.6g} kN) in combination '{names[k]}': "
+            f"a cable carries tension only; change the combination's factors or make it a link")))
     return job2, FrameSolution(names, pins, links, supports, residual, solver, sol.warnings)
 
 

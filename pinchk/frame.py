@@ -561,6 +561,22 @@ def _collect(job: Job, x: npt.NDArray[np.float64], num) -> FrameSolution:
             f"the solution does not satisfy equilibrium (relative residual {residual:.2e} > "
             f"{RESIDUAL_TOL:.0e}); the equations are ill-conditioned: check for nearly parallel links or "
             f"nearly coincident points")))
+    found = compressed_cable(job, links)
+    if found is not None:
+        lname, j, tj = found
+        raise StructureError(Problem(job.path, f"link.{lname}", "kind", (
+            f"cable {lname} would be in compression ({tj / 1e3:.6g} kN) in load case "
+            f"'{cases[j]}': a cable carries tension only; make it a link (kind = \"link\") "
+            f"or change the structure")))
+    return FrameSolution(cases, pins, links, supports, residual)
+
+
+def compressed_cable(job: Job, links: dict[str, npt.NDArray[np.float64]]) -> tuple[str, int, float] | None:
+    """The first cable in compression, as (cable, case index, tension [N]), or None.
+
+    A tension below -1e-9 of the cable's largest (at least 1 N) counts: round-off on a slack cable is not
+    compression.
+    """
     for lname, link in job.links.items():
         if link.kind != "cable":
             continue
@@ -569,11 +585,8 @@ def _collect(job: Job, x: npt.NDArray[np.float64], num) -> FrameSolution:
         slack = np.flatnonzero(t < -1e-9 * scale)
         if slack.size:
             j = int(slack[0])
-            raise StructureError(Problem(job.path, f"link.{lname}", "kind", (
-                f"cable {lname} would be in compression ({t[j] / 1e3:.6g} kN) in load case "
-                f"'{cases[j]}': a cable carries tension only; make it a link (kind = \"link\") "
-                f"or change the structure")))
-    return FrameSolution(cases, pins, links, supports, residual)
+            return lname, j, float(t[j])
+    return None
 
 
 def equilibrium_residual(job: Job, sol: FrameSolution) -> float:
