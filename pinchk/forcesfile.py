@@ -134,6 +134,28 @@ def _force(value, unit: str | None) -> float:
     return to_si(value, "force", unit)
 
 
+def _force_values(line, raw_of: dict, unit_of, bad, absent: str) -> tuple[dict[str, float | None], bool]:
+    """The force components of one row: ``raw_of[col]`` is the cell ("" or None when absent), read in
+    ``unit_of(col)``; problems go to ``bad``. A bad or absent required component is NaN and the row not ok."""
+    vals: dict[str, float | None] = {}
+    ok = True
+    for col in FORCE_COLUMNS:
+        raw = raw_of[col]
+        if raw is None or raw == "":
+            if col in REQUIRED:
+                bad(line, col, f"{absent}: give the force component {col} (0 if there is none)")
+                ok = False
+            vals[col] = math.nan if col in REQUIRED else None
+            continue
+        try:
+            vals[col] = _force(raw, unit_of(col))
+        except QuantityError as exc:
+            bad(line, col, str(exc))
+            ok = False
+            vals[col] = math.nan
+    return vals, ok
+
+
 def read_table(path: str, name: str | None = None) -> tuple[ForcesTable | None, list[Problem]]:
     """Read a forces file (CSV or JSON by its extension) on its own, without a job.
 
@@ -265,21 +287,9 @@ def parse_csv(text: str, path: str = "<forces>", name: str | None = None) -> tup
             if not names[col]:
                 bad(line, col, f"empty: every row names its {', '.join(NAME_COLUMNS)}")
                 named = False
-        vals: dict[str, float | None] = {}
-        for col in FORCE_COLUMNS:
-            raw = cell(cells, col)
-            if not raw:
-                if col in REQUIRED:
-                    bad(line, col, f"empty: give the force component {col} (0 if there is none)")
-                    ok = False
-                vals[col] = math.nan if col in REQUIRED else None
-                continue
-            try:
-                vals[col] = _force(raw, unit.get(col))
-            except QuantityError as exc:
-                bad(line, col, str(exc))
-                ok = False
-                vals[col] = math.nan
+        vals, vals_ok = _force_values(line, {col: cell(cells, col) for col in FORCE_COLUMNS}, unit.get, bad,
+                                      "empty")
+        ok = ok and vals_ok
         if named:
             rows.append(ForceRow(line, names["case"], names["pin"], names["member"], vals["fx"], vals["fy"],
                                  vals["fz"], ok))
@@ -397,21 +407,9 @@ def parse_json(text: str, path: str = "<forces>", name: str | None = None) -> tu
                 named = False
             else:
                 names[col] = v.strip()
-        vals: dict[str, float | None] = {}
-        for col in FORCE_COLUMNS:
-            v = t.get(col)
-            if v is None or (isinstance(v, str) and not v.strip()):
-                if col in REQUIRED:
-                    bad(line, col, f"missing: give the force component {col} (0 if there is none)")
-                    ok = False
-                vals[col] = math.nan if col in REQUIRED else None
-                continue
-            try:
-                vals[col] = _force(v.strip() if isinstance(v, str) else v, unit[col])
-            except QuantityError as exc:
-                bad(line, col, str(exc))
-                ok = False
-                vals[col] = math.nan
+        raw = {col: (v.strip() if isinstance(v, str) else v) for col in FORCE_COLUMNS for v in [t.get(col)]}
+        vals, vals_ok = _force_values(line, raw, unit.get, bad, "missing")
+        ok = ok and vals_ok
         if named:
             rows.append(ForceRow(line, names["case"], names["pin"], names["member"], vals["fx"], vals["fy"],
                                  vals["fz"], ok))
