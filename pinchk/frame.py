@@ -406,7 +406,7 @@ def _involved(owners: list[str], weights: npt.NDArray[np.float64]) -> str:
     return ", ".join(seen[:12]) + (" ..." if len(seen) > 12 else "")
 
 
-def _rank_tol(shape, s: npt.NDArray[np.float64]) -> float:
+def rank_tol(shape, s: npt.NDArray[np.float64]) -> float:
     return max(shape) * np.finfo(float).eps * (s[0] if s.size else 1.0) * 1e3
 
 
@@ -423,10 +423,10 @@ def _diagnose(job: Job, A, num) -> None:
         M = A.toarray() if hasattr(A, "toarray") else np.asarray(A, dtype=float)
         if n_eq == n_unk:  # the singular values alone settle a determinate frame, the common case
             s = np.linalg.svd(M, compute_uv=False)
-            if int((s > _rank_tol(M.shape, s)).sum()) == n_eq:
+            if int((s > rank_tol(M.shape, s)).sum()) == n_eq:
                 return
         U, s, Vt = np.linalg.svd(M)
-        rank = int((s > _rank_tol(M.shape, s)).sum())
+        rank = int((s > rank_tol(M.shape, s)).sum())
         mech, indet = n_eq - rank, n_unk - rank
         if mech == 0 and indet == 0:
             return
@@ -492,7 +492,7 @@ def solve(job: Job) -> FrameSolution:
         lu = spla.splu(A)
     except RuntimeError:
         lu = None
-    suspect = PIVOT_SUSPECT if n <= DENSE_RANK_LIMIT else _rank_tol(shape, np.ones(1))
+    suspect = PIVOT_SUSPECT if n <= DENSE_RANK_LIMIT else rank_tol(shape, np.ones(1))
     if lu is None or (not checked and _pivot_ratio(lu) < suspect):
         if n > DENSE_RANK_LIMIT:
             raise StructureError(Problem(job.path, "", "", _SINGULAR))

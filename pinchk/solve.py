@@ -25,29 +25,23 @@ def _stiffness_solve(job: Job) -> FrameSolution:
 
 
 SOLVERS = {"statics": frame.solve, "stiffness": _stiffness_solve}
-#: Largest equilibrium matrix whose rank is found here by a dense SVD.
-DENSE_RANK_LIMIT = 2000
 
 
 def degree_of_indeterminacy(job: Job) -> tuple[int, int] | None:
     """(mechanism degrees of freedom, degree of static indeterminacy) of the rigid-body equations,
-    or None when the system is too large for a dense rank."""
-    try:
-        import scipy.sparse as sp
-
-        A = sp.csc_matrix(frame.assemble(job)[0])
-    except (AttributeError, TypeError, ValueError, IndexError):  # frame's assembly changed its form
-        return None
-    if max(A.shape) > DENSE_RANK_LIMIT:
+    or None when the system is too large for a dense rank (frame.DENSE_RANK_LIMIT)."""
+    A = frame.assemble(job)[0]
+    if max(A.shape) > frame.DENSE_RANK_LIMIT:
         return None
     s = np.linalg.svd(A.toarray(), compute_uv=False)
-    tol = max(A.shape) * np.finfo(float).eps * (s[0] if s.size else 1.0) * 1e3
+    tol = frame.rank_tol(A.shape, s)
     rank = int((s > tol).sum())
     return A.shape[0] - rank, A.shape[1] - rank
 
 
 def solve(job: Job, solver: str | None = None) -> FrameSolution:
-    """Solve the frame of ``job`` (see ``_solve``), with a warning for every roller that would pull."""
+    """Solve the frame of ``job`` (see ``_solve``), with warnings for rollers that would pull and for
+    joint forces that dwarf the loads."""
     sol = _solve(job, solver)
     extra = roller_uplift(job, sol) + force_amplification(job, sol)
     return replace(sol, warnings=sol.warnings + extra) if extra else sol
