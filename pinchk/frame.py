@@ -13,6 +13,7 @@ supports), never entry by entry, so a frame of 10,000 bodies assembles in millis
 
 from __future__ import annotations
 
+import os
 import sys
 from dataclasses import dataclass
 
@@ -32,6 +33,10 @@ SVD_FIRST_LIMIT = 200
 PIVOT_SUSPECT = 1e-8
 #: Equilibrium residual allowed, relative to the largest force in the solution.
 RESIDUAL_TOL = 1e-9
+#: SuperLU without relaxed supernodes: a frame's equations have a few entries per column, so padded
+#: supernodes only add zeros and small dense steps; without them the factor is about twice as fast and a
+#: load case's solve three to four times (benchmarks/frame_solve.py). The ordering and the pivoting rule are the same.
+SPLU_OPTIONS = {"relax": 1}
 
 _SINGULAR = ("the equilibrium equations are singular: the structure is a mechanism or indeterminate "
              "(too large to locate where)")
@@ -178,35 +183,46 @@ _SPARSE_SUM_SIZE = 100_000
 
 
 def _group_sum(values: npt.NDArray[np.float64], groups, n_group: int, rows=None) -> npt.NDArray[np.float64]:
-    """Sum of the rows of ``values`` (item, ...) by the group of each item: (group, ...).
+    """Sum of the rows of ``values`` (item, ...) by the group of each item: (group, ...). See _GroupSum."""
+    return _GroupSum(groups, n_group, rows)(values)
 
-    ``rows`` picks the items' rows of ``values`` (all rows if None). Each group's items are added one
+
+class _GroupSum:
+    """Sums of rows of arrays by the group of each item, prepared once for many arrays of the same items.
+
+    ``rows`` picks the items' rows of the values (all rows if None). Each group's items are added one
     after another in the order given, exactly as a loop over the items would add them (so the sums are
     the same to the last bit): one vectorized step per rank within the groups, or, for large arrays
     once scipy is loaded, one product with a 0/1 incidence matrix (whose rows add in column order).
     """
-    groups = np.asarray(groups, dtype=np.intp)
-    tail = values.shape[1:]
-    if groups.size == 0:
-        return np.zeros((n_group,) + tail)
-    rows = np.arange(len(groups)) if rows is None else np.asarray(rows, dtype=np.intp)
-    if "scipy.sparse" in sys.modules and groups.size * max(1, int(np.prod(tail))) > _SPARSE_SUM_SIZE:
-        import scipy.sparse as sp
 
-        order = np.argsort(groups, kind="stable")
-        counts = np.bincount(groups, minlength=n_group)
-        indptr = np.concatenate([[0], np.cumsum(counts)])
-        S = sp.csr_matrix((np.ones(len(order)), rows[order], indptr), shape=(n_group, values.shape[0]))
-        return np.asarray(S @ values.reshape(values.shape[0], -1)).reshape((n_group,) + tail)
-    out = np.zeros((n_group,) + tail)
-    order = np.argsort(groups, kind="stable")
-    v = values[rows[order]]
-    counts = np.bincount(groups, minlength=n_group)
-    first = np.cumsum(counts) - counts
-    for r in range(int(counts.max())):
-        g = np.flatnonzero(counts > r)
-        out[g] += v[first[g] + r]
-    return out
+    def __init__(self, groups, n_group: int, rows=None) -> None:
+        self.groups = np.asarray(groups, dtype=np.intp)
+        self.n_group = n_group
+        self.rows = np.arange(len(self.groups)) if rows is None else np.asarray(rows, dtype=np.intp)
+        self.order = np.argsort(self.groups, kind="stable")
+        self.counts = np.bincount(self.groups, minlength=n_group)
+        self._S = None
+
+    def __call__(self, values: npt.NDArray[np.float64]) -> npt.NDArray[np.float64]:
+        tail = values.shape[1:]
+        if self.groups.size == 0:
+            return np.zeros((self.n_group,) + tail)
+        if "scipy.sparse" in sys.modules and self.groups.size * max(1, int(np.prod(tail))) > _SPARSE_SUM_SIZE:
+            if self._S is None:
+                import scipy.sparse as sp
+
+                indptr = np.concatenate([[0], np.cumsum(self.counts)])
+                self._S = sp.csr_matrix((np.ones(len(self.order)), self.rows[self.order], indptr),
+                                        shape=(self.n_group, values.shape[0]))
+            return np.asarray(self._S @ values.reshape(values.shape[0], -1)).reshape((self.n_group,) + tail)
+        out = np.zeros((self.n_group,) + tail)
+        v = values[self.rows[self.order]]
+        first = np.cumsum(self.counts) - self.counts
+        for r in range(int(self.counts.max())):
+            g = np.flatnonzero(self.counts > r)
+            out[g] += v[first[g] + r]
+        return out
 
 
 @dataclass(frozen=True)
@@ -489,7 +505,7 @@ def solve(job: Job) -> FrameSolution:
     if checked:
         _diagnose(job, A, num)  # raises: a frame that is not square is a mechanism or indeterminate
     try:
-        lu = spla.splu(A)
+        lu = spla.splu(A, **SPLU_OPTIONS)
     except RuntimeError:
         lu = None
     suspect = PIVOT_SUSPECT if n <= DENSE_RANK_LIMIT else rank_tol(shape, np.ones(1))
@@ -500,62 +516,127 @@ def solve(job: Job) -> FrameSolution:
             _diagnose(job, A, num)  # raises when the SVD finds the system singular, naming what is involved
         if lu is None:
             return _collect(job, np.linalg.solve(A.toarray(), b), num)
-    return _collect(job, lu.solve(b), num)
+    return _collect_blocks(job, lambda c0, c1: lu.solve(b[:, c0:c1]), num)
+
+
+#: Load cases are solved, collected and checked in blocks of about this many. A block's arrays stay small
+#: (a few MB at 10,000 bodies), where arrays of every case at once would each cost fresh memory; the
+#: results are the same to the last bit whatever the blocks.
+CASE_BLOCK = 16
+#: A frame with at least this many pin-force numbers (slots x 2 x cases) works its blocks side by side,
+#: one thread per CPU (the solver and numpy's large steps release the GIL).
+THREAD_SIZE = 200_000
+
+
+def _case_blocks(n_case: int, workers: int) -> list[tuple[int, int]]:
+    """Blocks (c0, c1) of about CASE_BLOCK cases, as many as a multiple of ``workers``, of equal size."""
+    n = -(-n_case // CASE_BLOCK)
+    n = -(-n // workers) * workers
+    edges = [round(i * n_case / n) for i in range(n + 1)]
+    return [(a, b) for a, b in zip(edges[:-1], edges[1:], strict=True) if b > a]
+
+
+def _in_blocks(work, n_case: int, size: int) -> tuple[float, float]:
+    """Largest (out-of-balance, force) over the blocks of cases, ``work(c0, c1)`` giving each block's."""
+    workers = (os.cpu_count() or 1) if size >= THREAD_SIZE else 1
+    blocks = _case_blocks(n_case, workers)
+    if workers > 1 and len(blocks) > 1:
+        from concurrent.futures import ThreadPoolExecutor
+
+        with ThreadPoolExecutor(min(workers, len(blocks))) as pool:
+            found = list(pool.map(lambda cc: work(*cc), blocks))
+    else:
+        found = [work(c0, c1) for c0, c1 in blocks]
+    # np.max, not max: a NaN anywhere must come through
+    return (float(np.max([w for w, _ in found], initial=0.0)), float(np.max([s for _, s in found], initial=0.0)))
 
 
 def _collect(job: Job, x: npt.NDArray[np.float64], num) -> FrameSolution:
+    """The forces of a frame from its solution ``x`` (unknown, case)."""
+    return _collect_blocks(job, lambda c0, c1: x[:, c0:c1], num)
+
+
+def _collect_blocks(job: Job, x_of, num) -> FrameSolution:
+    """The forces of a frame, with ``x_of(c0, c1)`` giving the solution (unknown, case) of cases c0 to c1 - 1.
+
+    Each block of cases is solved, laid into the results and checked for equilibrium on its own.
+    """
     cases, members, L = num["cases"], num["members"], num["L"]
     n_case = len(cases)
     case_ix = {c: j for j, c in enumerate(cases)}
-    links = {n: x[c].copy() for n, c in num["link_col"].items()}
+    link_list = list(job.links.values())
+    T_all = np.zeros((len(link_list), n_case))  # link tensions, in the order of job.links
+    t_col = np.array([num["link_col"][lk.name] for lk in link_list], dtype=np.intp)
+    R_all = np.zeros((len(job.supports), n_case, 3))  # reactions, in the order of job.supports
 
-    supports: dict[str, npt.NDArray[np.float64]] = {}
-    for sname, s in job.supports.items():
-        c = num["sup_col"][sname]
-        r = np.zeros((n_case, 3))
-        if s.kind == "roller":
-            r[:, 0] = x[c] * s.normal[0]
-            r[:, 1] = x[c] * s.normal[1]
-        else:
-            r[:, 0], r[:, 1] = x[c], x[c + 1]
-            if s.kind == "fixed":
-                r[:, 2] = x[c + 2] * L
-        supports[sname] = r
-
-    # every member slot of every pin, one after another: Fm[slot, case] = (Fx, Fy) the member receives;
-    # each pin's forces are a view of its slots
+    # every member slot of every pin, one after another: G[case, slot] = (Fx, Fy) the member receives;
+    # each pin's forces are a view of its slots. A block of cases is taken at once from the block's
+    # solution and the values of the members that are not bodies (then x's columns and the extra ones)
     sl: _Slots = num["slots"]
     start = sl.start
-    Fm = np.zeros((int(start[-1]), n_case, 2))
-    if sl.pb_slot.size:
-        cb = num["pb_col"]
-        Fm[sl.pb_slot, :, 0] = x[cb]
-        Fm[sl.pb_slot, :, 1] = x[cb + 1]
+    n_slot, n_unk = int(start[-1]), num["unk"].n
+    G = np.zeros((n_case, n_slot, 2))
+    cb = np.column_stack([num["pb_col"], num["pb_col"] + 1]).astype(np.intp) if sl.pb_slot.size else None
+    others = np.array(list(sl.s_link) + list(sl.s_gnd) + list(sl.s_load), dtype=np.intp)
+    source = np.full((n_slot, 2), n_unk + 2 * len(others), dtype=np.intp)  # (a slot of no kind: zero)
+    if cb is not None:
+        source[sl.pb_slot] = cb
+    source[others] = n_unk + np.arange(2 * len(others)).reshape(-1, 2)
+    source = source.ravel()
     if sl.s_link:
-        link_list = list(job.links.values())
         u = _unit(_xy(lk.ends[0] for lk in link_list), _xy(lk.ends[1] for lk in link_list))
         su = np.array(sl.sign)[:, None] * u[sl.l_link]  # (slot, 2)
-        T = x[[num["link_col"][link_list[i].name] for i in sl.l_link]]  # (slot, case)
-        # the pin receives T*u*s from the link, so the link receives the opposite
-        Fm[sl.s_link] = -(T[:, :, None] * su[:, None, :])
-    if sl.s_gnd:
-        R = np.stack(list(supports.values()))  # (support, case, 3)
-        Fm[sl.s_gnd] = -R[sl.g_sup][:, :, :2]
+        sl_col = t_col[sl.l_link]
     if sl.s_load:
-        pin_ix = {p: k for k, p in enumerate(job.pins)}
-        pin_load = np.zeros((len(pin_ix), n_case, 2))
         hung = [ld for ld in job.loads if ld.at.pin is not None and ld.body is None]
-        np.add.at(pin_load, ([pin_ix[ld.at.pin] for ld in hung], [case_ix[ld.case] for ld in hung]),
-                  np.array([ld.force for ld in hung], dtype=float))
-        Fm[sl.s_load] = -pin_load[sl.p_load]
+        pin_ix = {p: k for k, p in enumerate(job.pins)}
+        h_pin = np.array([pin_ix[ld.at.pin] for ld in hung], dtype=np.intp)
+        h_case = np.array([case_ix[ld.case] for ld in hung], dtype=np.intp)
+        h_f = np.array([ld.force for ld in hung], dtype=float).reshape(-1, 2)
+    balance = _Balance(job, [(p, tuple(members[p])) for p in job.pins],
+                       (sl.pb_slot, sl.pb_body, num["pin_xy"][sl.pb_pin], sl.pb_pin), num["places"], cases)
+    n_sup = len(job.supports)
 
-    F = Fm.transpose(1, 0, 2)  # (case, slot, 2)
-    pins = {pname: PinForces(pname, tuple(members[pname]), F[:, start[k]:start[k + 1]])
+    def block(c0: int, c1: int) -> tuple[float, float]:
+        # solve cases c0 .. c1 - 1, lay their forces into the results, check their equilibrium
+        x = x_of(c0, c1)
+        k = c1 - c0
+        T = x[t_col]
+        R = np.zeros((n_sup, k, 3))
+        for i, (sname, s) in enumerate(job.supports.items()):
+            c = num["sup_col"][sname]
+            if s.kind == "roller":
+                R[i, :, 0] = x[c] * s.normal[0]
+                R[i, :, 1] = x[c] * s.normal[1]
+            else:
+                R[i, :, 0], R[i, :, 1] = x[c], x[c + 1]
+                if s.kind == "fixed":
+                    R[i, :, 2] = x[c + 2] * L
+        T_all[:, c0:c1], R_all[:, c0:c1] = T, R
+        extra = [np.zeros((0, 2, k))]  # (slot, 2, case) of the members that are not bodies, as `others`
+        if sl.s_link:
+            # the pin receives T*u*s from the link, so the link receives the opposite
+            extra.append(-(su[:, :, None] * x[sl_col][:, None, :]))
+        if sl.s_gnd:
+            extra.append(-R[sl.g_sup][:, :, :2].transpose(0, 2, 1))
+        if sl.s_load:
+            pin_load = np.zeros((len(pin_ix), 2, k))
+            here = (h_case >= c0) & (h_case < c1)
+            np.add.at(pin_load, (h_pin[here], slice(None), h_case[here] - c0), h_f[here])
+            extra.append(-pin_load[sl.p_load])
+        ext = np.concatenate([x.T, np.concatenate(extra).transpose(2, 0, 1).reshape(k, -1), np.zeros((k, 1))],
+                             axis=1)
+        Gb = G[c0:c1]
+        Gb.reshape(k, -1)[:] = np.take(ext, source, axis=1)
+        on_body = x[cb] if cb is not None else np.zeros((0, 2, k))  # (pin-body pair, 2, case), as Gb's
+        return balance.block(on_body, Gb[:, balance.rest].transpose(1, 2, 0), T, R, c0, c1)
+
+    worst, scale = _in_blocks(block, n_case, G.size)
+    pins = {pname: PinForces(pname, tuple(members[pname]), G[:, start[k]:start[k + 1]])
             for k, pname in enumerate(job.pins)}
-
-    sol = FrameSolution(cases, pins, links, supports, residual=0.0)
-    residual = _residual(job, sol, Fm, (sl.pb_slot, sl.pb_body, num["pin_xy"][sl.pb_pin], sl.pb_pin),
-                         num["places"])
+    links = {lk.name: T_all[i] for i, lk in enumerate(link_list)}
+    supports = {sname: R_all[i] for i, sname in enumerate(job.supports)}
+    residual = float(worst / scale) if n_case else 0.0
     if not residual <= RESIDUAL_TOL:
         raise StructureError(Problem(job.path, "", "", (
             f"the solution does not satisfy equilibrium (relative residual {residual:.2e} > "
@@ -598,8 +679,10 @@ def equilibrium_residual(job: Job, sol: FrameSolution) -> float:
     reported, each of which must also be the opposite of the force the pin reports for that member).
     """
     n_case = len(sol.cases)
-    forces = [pf.force.transpose(1, 0, 2) for pf in sol.pins.values()]
-    Fm = np.concatenate(forces) if forces else np.zeros((0, n_case, 2))
+    forces = [pf.force for pf in sol.pins.values()]
+    G = np.concatenate(forces, axis=1) if forces else np.zeros((n_case, 0, 2))
+    T = np.array([sol.links[n] for n in job.links], dtype=float).reshape(len(job.links), n_case)
+    R = np.array([sol.supports[n] for n in job.supports], dtype=float).reshape(len(job.supports), n_case, 3)
     body_ix = {b: i for i, b in enumerate(job.bodies)}
     on_body = [(i, body_ix[m], job.pins[pf.pin].xy, k)
                for i, (k, pf, m) in enumerate((k, pf, m) for k, pf in enumerate(sol.pins.values())
@@ -608,137 +691,166 @@ def equilibrium_residual(job: Job, sol: FrameSolution) -> float:
     body = np.array([bi for _, bi, _, _ in on_body], dtype=np.intp)
     xy = np.array([xy for _, _, xy, _ in on_body], dtype=float).reshape(-1, 2)
     pin = np.array([k for _, _, _, k in on_body], dtype=np.intp)
-    return _residual(job, sol, Fm, (slot, body, xy, pin), np.array(_places(job), dtype=float).reshape(-1, 2))
+    balance = _Balance(job, [(pf.pin, pf.members) for pf in sol.pins.values()], (slot, body, xy, pin),
+                       np.array(_places(job), dtype=float).reshape(-1, 2), sol.cases)
+
+    def block(c0: int, c1: int) -> tuple[float, float]:
+        Gb = G[c0:c1]
+        return balance.block(Gb[:, slot].transpose(1, 2, 0), Gb[:, balance.rest].transpose(1, 2, 0),
+                             T[:, c0:c1], R[:, c0:c1], c0, c1)
+
+    worst, scale = _in_blocks(block, n_case, G.size)
+    return float(worst / scale) if n_case else 0.0
 
 
-def _residual(job: Job, sol: FrameSolution, Fm: npt.NDArray[np.float64], on_body, places) -> float:
-    """equilibrium_residual from the pins' forces one member slot after another, ``Fm`` (slot, case, 2),
-    ``on_body`` = (slot, body index, pin x y, pin index) of every slot whose member is a body, and every
-    point of the frame. Every sum adds its terms in the order a loop over the job would.
+def _absmax(a: npt.NDArray[np.float64]) -> float:
+    """Largest magnitude in ``a`` (0 if empty, NaN if any is NaN), without a temporary array."""
+    return float(np.maximum(a.max(initial=0.0), -a.min(initial=0.0)))
+
+
+class _Balance:
+    """equilibrium_residual prepared once for a frame, then worked one block of load cases at a time.
+
+    ``pins`` = (pin, its members) in the order of the slots, ``on_body`` = (slot, body index, pin x y,
+    pin index) of every slot whose member is a body, ``places`` every point of the frame. Every sum adds
+    its terms in the order a loop over the job would, whatever the blocks.
     """
-    n_case = len(sol.cases)
-    case_ix = {c: j for j, c in enumerate(sol.cases)}
-    body_ix = {b: i for i, b in enumerate(job.bodies)}
-    n_body = len(body_ix)
-    pin_list = list(sol.pins.values())
-    pin_ix = {pf.pin: k for k, pf in enumerate(pin_list)}
-    n_pin = len(pin_list)
-    slot, body, xy, slot_pin = on_body
 
-    # each pin: the opposite of what it gives its bodies, then what its links, support and hung load
-    # put on it, from their own results (links, ground and loads accumulate per member too, to compare
-    # with the entry the pin reports for that member)
-    P = -_group_sum(Fm, slot_pin, n_pin, rows=slot)
-    on_pin_key: dict[tuple[str, str], int] = {}
-    ends = [(end.pin, lname, s, li) for li, (lname, link) in enumerate(job.links.items())
-            for end, s in zip(link.ends, (1.0, -1.0), strict=True) if end.pin is not None and end.pin in pin_ix]
-    if ends:
+    def __init__(self, job: Job, pins: list[tuple[str, tuple[str, ...]]], on_body, places, cases) -> None:
+        case_ix = {c: j for j, c in enumerate(cases)}
+        body_ix = {b: i for i, b in enumerate(job.bodies)}
+        pin_ix = {p: k for k, (p, _) in enumerate(pins)}
+        self.n_body, self.n_pin = n_body, n_pin = len(body_ix), len(pins)
+        slot, body, xy, slot_pin = on_body
+        self.x, self.y = np.asarray(xy[:, 0:1]), np.asarray(xy[:, 1:2])
+        self.sum_pin = _GroupSum(slot_pin, n_pin)  # what each pin gives its bodies
+        self.sum_body = _GroupSum(body, n_body)  # what each body receives from its pins, and its moment
         link_list = list(job.links.values())
-        u = _unit(_xy(lk.ends[0] for lk in link_list), _xy(lk.ends[1] for lk in link_list))
-        li = np.array([e[3] for e in ends], dtype=np.intp)
-        su = np.array([e[2] for e in ends])[:, None] * u[li]
-        T = np.stack([np.asarray(sol.links[link_list[i].name], dtype=float) for i in li.tolist()])
-        f_end = T[:, :, None] * su[:, None, :]  # (end, case, 2), as np.outer(T, s * u)
-        k_end = np.array([pin_ix[e[0]] for e in ends], dtype=np.intp)
-        np.add.at(P, k_end, f_end)
-        key = np.array([on_pin_key.setdefault((e[0], e[1]), len(on_pin_key)) for e in ends], dtype=np.intp)
-        on_link = np.zeros((len(on_pin_key), n_case, 2))
-        np.add.at(on_link, key, f_end)
-    else:
-        on_link = np.zeros((0, n_case, 2))
-    ground = np.zeros((n_pin, n_case, 2))
-    hung = np.zeros((n_pin, n_case, 2))
-    sups = [(pin_ix[s.at.pin], sname) for sname, s in job.supports.items()
-            if s.at.pin is not None and s.at.pin in pin_ix]
-    if sups:
-        R = np.stack([np.asarray(sol.supports[n], dtype=float)[:, :2] for _, n in sups])
-        k_sup = np.array([k for k, _ in sups], dtype=np.intp)
-        np.add.at(P, k_sup, R)
-        np.add.at(ground, k_sup, R)
-    loads_p = [ld for ld in job.loads if ld.at.pin is not None and ld.body is None and ld.at.pin in pin_ix]
-    if loads_p:
-        k_ld = np.array([pin_ix[ld.at.pin] for ld in loads_p], dtype=np.intp)
-        j_ld = np.array([case_ix[ld.case] for ld in loads_p], dtype=np.intp)
-        f_ld = np.array([ld.force for ld in loads_p], dtype=float)
-        np.add.at(P, (k_ld, j_ld), f_ld)
-        np.add.at(hung, (k_ld, j_ld), f_ld)
-    # each member that is not a body: the pin's entry for it and what it puts on the pin cancel
-    lens = np.fromiter((len(pf.members) for pf in pin_list), np.intp, n_pin)
-    start = np.concatenate([[0], np.cumsum(lens)]).astype(np.intp)
-    is_body = np.zeros(int(start[-1]), dtype=bool)
-    is_body[slot] = True
-    rest = np.flatnonzero(~is_body)
-    k_rest = np.searchsorted(start, rest, side="right") - 1
-    other = [(i, k, pin_list[k].members[i - int(start[k])]) for i, k in zip(rest.tolist(), k_rest.tolist(),
-                                                                            strict=True)]
-    mismatch = 0.0
-    if other:
-        given = np.zeros((len(other), n_case, 2))
-        for r, (_, k, m) in enumerate(other):
-            if (pin_list[k].pin, m) in on_pin_key:
-                given[r] = on_link[on_pin_key[(pin_list[k].pin, m)]]
-            elif m == GROUND:
-                given[r] = ground[k]
-            elif m == PIN_LOAD:
-                given[r] = hung[k]
-        mismatch = np.abs(Fm[[i for i, _, _ in other]] + given).max(initial=0.0)
 
-    # each body: Fx, Fy and Mz about the origin of every force on it: what its pins give it, then its
-    # links, its supports (item by item: (item, case, 3))
-    items: list[npt.NDArray[np.float64]] = []
-    who: list[npt.NDArray[np.intp]] = []
-    F = np.zeros((n_body, n_case, 3))  # Fx, Fy, Mz about the origin
-    if slot.size:
-        F[:, :, :2] = _group_sum(Fm, body, n_body, rows=slot)
-        mz = xy[:, 0, None] * Fm[slot, :, 1] - xy[:, 1, None] * Fm[slot, :, 0]
-        F[:, :, 2] = _group_sum(mz, body, n_body)
-    for lname, link in job.links.items():
-        a, b = link.ends
-        d = np.subtract(b.xy, a.xy)
-        u = d / np.hypot(*d)
-        for end, s in ((a, 1.0), (b, -1.0)):
-            if end.pin is None:
-                f = np.outer(sol.links[lname], s * u)
-                it = np.empty((1, n_case, 3))
-                it[0, :, :2] = f
-                it[0, :, 2] = end.xy[0] * f[:, 1] - end.xy[1] * f[:, 0] + 0.0
-                items.append(it)
-                who.append(np.array([body_ix[end.body]], dtype=np.intp))
-    for sname, s in job.supports.items():
-        if s.at.pin is None:
-            r = sol.supports[sname]
-            it = np.empty((1, n_case, 3))
-            it[0, :, :2] = r[:, :2]
-            it[0, :, 2] = s.at.xy[0] * r[:, 1] - s.at.xy[1] * r[:, 0] + r[:, 2]
-            items.append(it)
-            who.append(np.array([body_ix[s.at.body]], dtype=np.intp))
-    if items:  # after the pins, in order, as a loop would add them
-        it, bi = np.concatenate(items), np.concatenate(who)
-        for k in range(len(bi)):
-            F[bi[k]] += it[k]
-    # loads on bodies, each in its own case (a pin's own load is one of its members and already in P)
-    loads = [ld for ld in job.loads if not (ld.at.pin is not None and ld.body is None)]
-    if loads:
-        bi = [body_ix[ld.body or ld.at.body] for ld in loads]
-        j = [case_ix[ld.case] for ld in loads]
-        f = np.array([ld.force for ld in loads], dtype=float)
-        X, Y = _xy(ld.at for ld in loads).T
+        # link ends on pins: each adds to its pin, and per (pin, link) to compare with the pin's entry
+        on_pin_key: dict[tuple[str, str], int] = {}
+        ends = [(end.pin, lname, s, li) for li, (lname, link) in enumerate(job.links.items())
+                for end, s in zip(link.ends, (1.0, -1.0), strict=True) if end.pin is not None and end.pin in pin_ix]
+        self.end_link = np.array([e[3] for e in ends], dtype=np.intp)
+        if ends:
+            u = _unit(_xy(lk.ends[0] for lk in link_list), _xy(lk.ends[1] for lk in link_list))
+            self.end_su = np.array([e[2] for e in ends])[:, None] * u[self.end_link]
+            self.end_pin = np.array([pin_ix[e[0]] for e in ends], dtype=np.intp)
+            self.end_key = np.array([on_pin_key.setdefault((e[0], e[1]), len(on_pin_key)) for e in ends],
+                                    dtype=np.intp)
+        self.n_key = n_key = len(on_pin_key)
+        # supports and hung loads at pins: each adds to its pin, and per pin (only pins that have one)
+        sups = [(pin_ix[s.at.pin], i) for i, s in enumerate(job.supports.values())
+                if s.at.pin is not None and s.at.pin in pin_ix]
+        self.sup_pin = np.array([k for k, _ in sups], dtype=np.intp)
+        self.sup_ix = np.array([i for _, i in sups], dtype=np.intp)
+        g_pins, self.sup_row = np.unique(self.sup_pin, return_inverse=True)
+        loads_p = [ld for ld in job.loads if ld.at.pin is not None and ld.body is None and ld.at.pin in pin_ix]
+        self.lp_pin = np.array([pin_ix[ld.at.pin] for ld in loads_p], dtype=np.intp)
+        self.lp_case = np.array([case_ix[ld.case] for ld in loads_p], dtype=np.intp)
+        self.lp_f = np.array([ld.force for ld in loads_p], dtype=float).reshape(-1, 2)
+        h_pins, self.lp_row = np.unique(self.lp_pin, return_inverse=True)
+        self.n_g, self.n_h = len(g_pins), len(h_pins)
+        g_row = {int(k): r for r, k in enumerate(g_pins)}
+        h_row = {int(k): r for r, k in enumerate(h_pins)}
+
+        # each member that is not a body: where to find what it puts on the pin, in the rows of
+        # [link ends per (pin, link); supports per pin; hung loads per pin; zero]
+        lens = np.fromiter((len(m) for _, m in pins), np.intp, n_pin)
+        start = np.concatenate([[0], np.cumsum(lens)]).astype(np.intp)
+        is_body = np.zeros(int(start[-1]), dtype=bool)
+        is_body[slot] = True
+        rest = np.flatnonzero(~is_body)
+        k_rest = np.searchsorted(start, rest, side="right") - 1
+        zero = n_key + self.n_g + self.n_h
+        src = []
+        for i, k in zip(rest.tolist(), k_rest.tolist(), strict=True):
+            p, m = pins[k][0], pins[k][1][i - int(start[k])]
+            src.append(on_pin_key[(p, m)] if (p, m) in on_pin_key else
+                       n_key + g_row.get(k, zero - n_key) if m == GROUND else
+                       n_key + self.n_g + h_row.get(k, zero - n_key - self.n_g) if m == PIN_LOAD else zero)
+        self.rest, self.rest_src = rest, np.array(src, dtype=np.intp)
+
+        # forces on bodies that do not come through pins: link ends and supports at body points, in
+        # the order a loop over the links and then the supports meets them
+        self.items: list[tuple] = []
+        for li, link in enumerate(link_list):
+            a, b = link.ends
+            d = np.subtract(b.xy, a.xy)
+            u1 = d / np.hypot(*d)
+            for end, s in ((a, 1.0), (b, -1.0)):
+                if end.pin is None:
+                    self.items.append(("link", li, s * u1, end.xy, body_ix[end.body]))
+        for i, s in enumerate(job.supports.values()):
+            if s.at.pin is None:
+                self.items.append(("support", i, None, s.at.xy, body_ix[s.at.body]))
+        # loads on bodies, each in its own case (a pin's own load is one of its members)
+        loads = [ld for ld in job.loads if not (ld.at.pin is not None and ld.body is None)]
+        self.lb_body = np.array([body_ix[ld.body or ld.at.body] for ld in loads], dtype=np.intp)
+        self.lb_case = np.array([case_ix[ld.case] for ld in loads], dtype=np.intp)
+        f = np.array([ld.force for ld in loads], dtype=float).reshape(-1, 2)
+        X, Y = _xy(ld.at for ld in loads).reshape(-1, 2).T
         m = np.array([ld.moment for ld in loads], dtype=float)
-        np.add.at(F, (bi, j, 0), f[:, 0])
-        np.add.at(F, (bi, j, 1), f[:, 1])
-        np.add.at(F, (bi, j, 2), X * f[:, 1] - Y * f[:, 0] + m)
+        self.lb_f = np.column_stack([f[:, 0], f[:, 1], X * f[:, 1] - Y * f[:, 0] + m])
 
-    L = max(float(np.abs(places).max(initial=0.0)), 1e-9)
-    ld_f = np.array([ld.force for ld in job.loads], dtype=float).reshape(-1, 2)
-    ld_m = np.array([ld.moment for ld in job.loads], dtype=float)
-    scale = max(
-        np.abs(Fm).max(initial=0.0),
-        max((np.abs(t).max(initial=0.0) for t in sol.links.values()), default=0.0),
-        max((np.abs(r[:, :2]).max(initial=0.0) for r in sol.supports.values()), default=0.0),
-        np.hypot(ld_f[:, 0], ld_f[:, 1]).max(initial=0.0),
-        np.abs(ld_m).max(initial=0.0) / L,
-        1e-300,
-    )
-    worst = max(np.abs(F[:, :, :2]).max(initial=0.0), np.abs(F[:, :, 2]).max(initial=0.0) / L,
-                np.abs(P).max(initial=0.0), mismatch)
-    return float(worst / scale)
+        self.L = L = max(float(np.abs(places).max(initial=0.0)), 1e-9)
+        ld_f = np.array([ld.force for ld in job.loads], dtype=float).reshape(-1, 2)
+        ld_m = np.array([ld.moment for ld in job.loads], dtype=float)
+        self.load_scale = max(np.hypot(ld_f[:, 0], ld_f[:, 1]).max(initial=0.0), np.abs(ld_m).max(initial=0.0) / L,
+                              1e-300)
+
+    def block(self, B, rest, T, R, c0: int, c1: int) -> tuple[float, float]:
+        """(largest out-of-balance, largest force) of load cases c0 .. c1 - 1, from the forces ``B``
+        (on-body slot, 2, case) the bodies receive, ``rest`` (slot, 2, case) those of the slots
+        ``self.rest`` (the members that are not bodies), link tensions ``T`` (link, case) and reactions
+        ``R`` (support, case, 3)."""
+        k = c1 - c0
+        # each pin: the opposite of what it gives its bodies, then what its links, support and hung
+        # load put on it (each also kept per member, to compare with the pin's entry for it)
+        P = self.sum_pin(B)  # (pin, 2, case)
+        np.negative(P, out=P)
+        on_link = np.zeros((self.n_key, 2, k))
+        if self.n_key:
+            f_end = self.end_su[:, :, None] * T[self.end_link][:, None, :]  # as np.outer(s * u, T)
+            np.add.at(P, self.end_pin, f_end)
+            np.add.at(on_link, self.end_key, f_end)
+        ground = np.zeros((self.n_g, 2, k))
+        if self.sup_pin.size:
+            Rp = R[self.sup_ix][:, :, :2].transpose(0, 2, 1)
+            np.add.at(P, self.sup_pin, Rp)
+            np.add.at(ground, self.sup_row, Rp)
+        hung = np.zeros((self.n_h, 2, k))
+        here = (self.lp_case >= c0) & (self.lp_case < c1)
+        if here.any():
+            j = self.lp_case[here] - c0
+            np.add.at(P, (self.lp_pin[here], slice(None), j), self.lp_f[here])
+            np.add.at(hung, (self.lp_row[here], slice(None), j), self.lp_f[here])
+        # each member that is not a body: the pin's entry for it and what it puts on the pin cancel
+        given = np.concatenate([on_link, ground, hung, np.zeros((1, 2, k))])[self.rest_src]
+        mismatch = _absmax(rest + given)
+
+        # each body: Fx, Fy and Mz about the origin of every force on it: what its pins give it, then
+        # its links and supports item by item, then its loads
+        F = self.sum_body(B)  # (body, 2, case)
+        mz = self.x * B[:, 1]
+        mz -= self.y * B[:, 0]
+        M = self.sum_body(mz)  # (body, case)
+        for kind, i, su, (x, y), bi in self.items:
+            if kind == "link":
+                f = np.outer(T[i], su)
+                F[bi] += f.T
+                M[bi] += x * f[:, 1] - y * f[:, 0] + 0.0
+            else:
+                r = R[i]
+                F[bi] += r[:, :2].T
+                M[bi] += x * r[:, 1] - y * r[:, 0] + r[:, 2]
+        here = (self.lb_case >= c0) & (self.lb_case < c1)
+        if here.any():
+            bi, j = self.lb_body[here], self.lb_case[here] - c0
+            np.add.at(F, (bi, 0, j), self.lb_f[here, 0])
+            np.add.at(F, (bi, 1, j), self.lb_f[here, 1])
+            np.add.at(M, (bi, j), self.lb_f[here, 2])
+
+        worst = np.max([_absmax(F), _absmax(M) / self.L, _absmax(P), mismatch])
+        scale = np.max([_absmax(B), _absmax(rest), _absmax(T), _absmax(R[:, :, :2]), self.load_scale])
+        return float(worst), float(scale)

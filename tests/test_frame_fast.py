@@ -77,16 +77,24 @@ def test_large_truss_assembles_as_before():
 def test_solve_as_the_loop_version(n, monkeypatch):
     job = truss(n, 3, link_every=3, jitter=0.1, seed=n)
     s_ref = ref.solve(job)
-    # SuperLU with determinacy by the factor's pivots: the same bits as the loop version
+    # SuperLU with determinacy by the factor's pivots and the loop version's SuperLU settings: the
+    # same bits
     monkeypatch.setattr(frame, "SVD_FIRST_LIMIT", 0)
-    s = frame.solve(job)
+    with monkeypatch.context() as m:
+        m.setattr(frame, "SPLU_OPTIONS", {})
+        s = frame.solve(job)
     assert s.residual == s_ref.residual
     for p, pf in s_ref.pins.items():
         assert np.array_equal(s.pins[p].force, pf.force), p
+    # with pinchk's own SuperLU settings (no relaxed supernodes): the same forces to round-off
+    s = frame.solve(job)
+    scale = max(np.abs(pf.force).max() for pf in s_ref.pins.values())
+    assert s.residual < 1e-12
+    for p, pf in s_ref.pins.items():
+        np.testing.assert_allclose(s.pins[p].force, pf.force, rtol=1e-12, atol=1e-12 * scale, err_msg=p)
     # a small frame solved dense after the SVD (no scipy): the same forces to round-off
     monkeypatch.setattr(frame, "SVD_FIRST_LIMIT", 10**9)
     s = frame.solve(job)
-    scale = max(np.abs(pf.force).max() for pf in s_ref.pins.values())
     assert s.residual < 1e-12
     for p, pf in s_ref.pins.items():
         np.testing.assert_allclose(s.pins[p].force, pf.force, rtol=1e-12, atol=1e-12 * scale, err_msg=p)
