@@ -16,6 +16,7 @@ from __future__ import annotations
 import os
 import sys
 from dataclasses import dataclass
+from itertools import chain
 
 import numpy as np
 import numpy.typing as npt
@@ -248,12 +249,13 @@ class _Slots:
 
 
 def _slots(job: Job, members: dict[str, list[str]], pin_ix: dict[str, int], body_ix: dict[str, int]) -> _Slots:
-    n_b = np.fromiter((len(p.bodies) for p in job.pins.values()), np.intp, len(job.pins))
-    lens = np.fromiter((len(m) for m in members.values()), np.intp, len(members))
+    n_b = np.fromiter(map(len, (p.bodies for p in job.pins.values())), np.intp, len(job.pins))
+    lens = np.fromiter(map(len, members.values()), np.intp, len(members))
     start = np.concatenate([[0], np.cumsum(lens)]).astype(np.intp)
     n_pair = int(n_b.sum())
     pb_pin = np.repeat(np.arange(len(n_b), dtype=np.intp), n_b)
-    pb_body = np.fromiter((body_ix[b] for p in job.pins.values() for b in p.bodies), np.intp, n_pair)
+    pb_body = np.fromiter(map(body_ix.__getitem__, chain.from_iterable(p.bodies for p in job.pins.values())),
+                          np.intp, n_pair)
     pair_first = np.cumsum(n_b) - n_b
     pb_slot = start[pb_pin] + (np.arange(n_pair, dtype=np.intp) - pair_first[pb_pin])
     # the rest of each pin's slots fill in the order _members appends them: links, ground, load
@@ -302,9 +304,10 @@ def _triplets(job: Job):
     pin_ix = {name: i for i, name in enumerate(pin_names)}
     n_body, n_pin = len(body_names), len(pin_names)
 
-    n_pts = np.array([len(b.points) for b in job.bodies.values()], dtype=np.intp)
-    pts = np.array([xy for b in job.bodies.values() for xy in b.points.values()], dtype=float).reshape(-1, 2)
-    pin_xy = np.array([p.xy for p in job.pins.values()], dtype=float).reshape(-1, 2)
+    n_pts = np.fromiter(map(len, (b.points for b in job.bodies.values())), np.intp, n_body)
+    pts = np.fromiter(chain.from_iterable(chain.from_iterable(b.points.values() for b in job.bodies.values())),
+                      float, 2 * int(n_pts.sum())).reshape(-1, 2)
+    pin_xy = np.fromiter(chain.from_iterable(p.xy for p in job.pins.values()), float, 2 * n_pin).reshape(-1, 2)
     places = np.concatenate([pts, pin_xy])  # as _places(job): a pin may stand where only links meet
     span = float(np.ptp(places, axis=0).max()) if len(places) > 1 else 1.0
     L = span if span > 0 else 1.0  # moment rows are divided by L so every entry is of order one
@@ -319,11 +322,10 @@ def _triplets(job: Job):
     pb_pin, pb_body = slots.pb_pin, slots.pb_body
 
     # pin-to-body forces: unknown (Fx, Fy) the body receives; the pin receives the opposite
-    pairs = [(pname, body) for pname, pin in job.pins.items() for body in pin.bodies]
-    c = unk.take_each(np.full(len(pairs), 2), lambda: [f"pin {p} at body {b}" for p, b in pairs])
-    pin_body_col = dict(zip(pairs, c.tolist(), strict=True))
-    pb_col = c
-    if pairs:
+    c = unk.take_each(np.full(len(pb_pin), 2), lambda: [f"pin {p} at body {b}" for p, pin in job.pins.items()
+                                                        for b in pin.bodies])
+    pb_col = c  # the columns of every (pin, body) pair, in pin order then pin.bodies order
+    if len(pb_pin):
         rxy = pin_xy[pb_pin] - ref[pb_body]
         E.on_body_xy(body_row[pb_body], c, rxy[:, 0], rxy[:, 1])
         E.add(pin_row[pb_pin], c, -1.0)
@@ -376,7 +378,7 @@ def _triplets(job: Job):
                     E.add(r + 2, ck + 2, 1.0)  # reaction moment, unknown M / L
 
     # loads: the right-hand side, one column per case
-    b = np.zeros((eqs.n, len(cases)))
+    b = np.zeros((eqs.n, len(cases)), order="F")  # column by column, as the solver reads a few cases at a time
     on_pin = [ld for ld in job.loads if ld.at.pin is not None and ld.body is None]
     on_body = [ld for ld in job.loads if not (ld.at.pin is not None and ld.body is None)]
     if on_pin:
@@ -398,7 +400,7 @@ def _triplets(job: Job):
 
     rows, cols, vals = E.arrays()
     numbering = dict(
-        cases=cases, members=members, L=L, eqs=eqs, unk=unk, pin_body_col=pin_body_col,
+        cases=cases, members=members, L=L, eqs=eqs, unk=unk,
         link_col=link_col, sup_col=sup_col, slots=slots, pb_col=pb_col, pin_xy=pin_xy, places=places,
     )
     return rows, cols, vals, (eqs.n, unk.n), b, numbering
@@ -516,7 +518,16 @@ def solve(job: Job) -> FrameSolution:
             _diagnose(job, A, num)  # raises when the SVD finds the system singular, naming what is involved
         if lu is None:
             return _collect(job, np.linalg.solve(A.toarray(), b), num)
-    return _collect_blocks(job, lambda c0, c1: lu.solve(b[:, c0:c1]), num)
+
+    def x_of(c0: int, c1: int) -> npt.NDArray[np.float64]:
+        # a few right-hand sides at a time: their columns then stay in the CPU's cache during the solve
+        x = np.empty((b.shape[0], c1 - c0), order="F")
+        for a in range(c0, c1, SOLVE_COLUMNS):
+            z = min(a + SOLVE_COLUMNS, c1)
+            x[:, a - c0:z - c0] = lu.solve(b[:, a:z])
+        return x
+
+    return _collect_blocks(job, x_of, num)
 
 
 #: Load cases are solved, collected and checked in blocks of about this many. A block's arrays stay small
@@ -526,6 +537,8 @@ CASE_BLOCK = 16
 #: A frame with at least this many pin-force numbers (slots x 2 x cases) works its blocks side by side,
 #: one thread per CPU (the solver and numpy's large steps release the GIL).
 THREAD_SIZE = 200_000
+#: SuperLU solves this many load cases at a time (fewer columns stay in cache; see benchmarks/frame_solve.py).
+SOLVE_COLUMNS = 4
 
 
 def _case_blocks(n_case: int, workers: int) -> list[tuple[int, int]]:
@@ -593,7 +606,8 @@ def _collect_blocks(job: Job, x_of, num) -> FrameSolution:
         h_pin = np.array([pin_ix[ld.at.pin] for ld in hung], dtype=np.intp)
         h_case = np.array([case_ix[ld.case] for ld in hung], dtype=np.intp)
         h_f = np.array([ld.force for ld in hung], dtype=float).reshape(-1, 2)
-    balance = _Balance(job, [(p, tuple(members[p])) for p in job.pins],
+    at_pin = {p: tuple(m) for p, m in members.items()}
+    balance = _Balance(job, list(at_pin.items()),
                        (sl.pb_slot, sl.pb_body, num["pin_xy"][sl.pb_pin], sl.pb_pin), num["places"], cases)
     n_sup = len(job.supports)
 
@@ -632,8 +646,7 @@ def _collect_blocks(job: Job, x_of, num) -> FrameSolution:
         return balance.block(on_body, Gb[:, balance.rest].transpose(1, 2, 0), T, R, c0, c1)
 
     worst, scale = _in_blocks(block, n_case, G.size)
-    pins = {pname: PinForces(pname, tuple(members[pname]), G[:, start[k]:start[k + 1]])
-            for k, pname in enumerate(job.pins)}
+    pins = {pname: PinForces(pname, at_pin[pname], G[:, start[k]:start[k + 1]]) for k, pname in enumerate(job.pins)}
     links = {lk.name: T_all[i] for i, lk in enumerate(link_list)}
     supports = {sname: R_all[i] for i, sname in enumerate(job.supports)}
     residual = float(worst / scale) if n_case else 0.0
@@ -723,8 +736,11 @@ class _Balance:
         self.n_body, self.n_pin = n_body, n_pin = len(body_ix), len(pins)
         slot, body, xy, slot_pin = on_body
         self.x, self.y = np.asarray(xy[:, 0:1]), np.asarray(xy[:, 1:2])
-        self.sum_pin = _GroupSum(slot_pin, n_pin)  # what each pin gives its bodies
-        self.sum_body = _GroupSum(body, n_body)  # what each body receives from its pins, and its moment
+        # what each pin gives its bodies and what each body receives from its pins, in one product
+        n_on = len(body)
+        self.sum_both = _GroupSum(np.concatenate([slot_pin, n_pin + np.asarray(body, dtype=np.intp)]),
+                                  n_pin + n_body, rows=np.tile(np.arange(n_on), 2))
+        self.sum_body = _GroupSum(body, n_body)  # the moments about the origin of what each body receives
         link_list = list(job.links.values())
 
         # link ends on pins: each adds to its pin, and per (pin, link) to compare with the pin's entry
@@ -807,7 +823,8 @@ class _Balance:
         k = c1 - c0
         # each pin: the opposite of what it gives its bodies, then what its links, support and hung
         # load put on it (each also kept per member, to compare with the pin's entry for it)
-        P = self.sum_pin(B)  # (pin, 2, case)
+        PF = self.sum_both(B)
+        P, F = PF[:self.n_pin], PF[self.n_pin:]  # (pin, 2, case), (body, 2, case)
         np.negative(P, out=P)
         on_link = np.zeros((self.n_key, 2, k))
         if self.n_key:
@@ -831,7 +848,6 @@ class _Balance:
 
         # each body: Fx, Fy and Mz about the origin of every force on it: what its pins give it, then
         # its links and supports item by item, then its loads
-        F = self.sum_body(B)  # (body, 2, case)
         mz = self.x * B[:, 1]
         mz -= self.y * B[:, 0]
         M = self.sum_body(mz)  # (body, case)
