@@ -13,7 +13,6 @@ compared with the kernel's, so the two surely compute the same thing.
 
 from __future__ import annotations
 
-import dataclasses
 import math
 import time
 from contextlib import contextmanager
@@ -79,16 +78,10 @@ class Rows:
         self.Q, self.plate_lab, self.plate_stack = tile(got["Q"]), labels(plate_lab), np.tile(plate_st, reps)
         self.pin_more, self.plate_more = more(pin_more), more(plate_more)
 
-    def kernel(self, terms: bool = True) -> dict[str, object]:
-        """The method's checks over every row and the long results table: the timed work.
-
-        ``terms`` False drops each check's named inputs first, so the table's per-row 'terms' column
-        (a tuple of (symbol, kind, value) per row, for the calculation report) is left empty.
-        """
+    def kernel(self) -> dict[str, object]:
+        """The method's checks over every row and the long results table: the timed work."""
         m, f, v = self.mod, self.f, self.variant
         pc, qc = m.pin_checks(self.P, f, v), m.plate_checks(self.Q, f, v)
-        if not terms:
-            pc, qc = ([dataclasses.replace(c, terms=()) for c in cs] for cs in (pc, qc))
         blocks = [(pc, self.pin_lab, self.pin_stack, *self.pin_more),
                   (qc, self.plate_lab, self.plate_stack, *self.plate_more)]
         return checks.check_table(blocks, self.cases)
@@ -98,13 +91,13 @@ def rows_per_rep() -> int:
     return len(Rows(1).kernel()["check"])
 
 
-def time_kernel(n_rows: int, repeat: int, terms: bool = True) -> tuple[int, float]:
+def time_kernel(n_rows: int, repeat: int) -> tuple[int, float]:
     """(rows in the table, best time [s]) for a table of about ``n_rows`` rows."""
     rows = Rows(max(1, round(n_rows / rows_per_rep())))
     best, n = math.inf, 0
     for _ in range(repeat):
         t = time.perf_counter()
-        cols = rows.kernel(terms)
+        cols = rows.kernel()
         best = min(best, time.perf_counter() - t)
         n = len(cols["check"])
         del cols

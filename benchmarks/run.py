@@ -83,10 +83,6 @@ def main(argv: list[str]) -> int:
         target = n >= 100_000
         add(f"check kernel: {n_rows:,} rows", f"{rate:,.0f} rows/s ({t * 1e3:.1f} ms)",
             ">= 1,000,000 rows/s" if target else "-", rate >= 1e6 if target else None)
-    for n in (100_000,) + (() if quick else (10_000_000,)):
-        n_rows, t = kernel.time_kernel(n, 1 if n >= 10_000_000 else 5, terms=False)
-        add(f"check kernel: {n_rows:,} rows, without the per-row terms column", f"{n_rows / t:,.0f} rows/s "
-            f"({t * 1e3:.1f} ms)", "-", None)
     p = kernel.against_pint(10_000, 5)
     add(f"check kernel vs pint loop, same {p['rows']:,} rows",
         f"{p['ratio']:,.0f} x faster (loop {p['loop_s']:.2f} s, kernel {p['kernel_s'] * 1e3:.1f} ms; "
