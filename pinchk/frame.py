@@ -641,7 +641,7 @@ def _collect_blocks(job: Job, x_of, num) -> FrameSolution:
         ext = np.concatenate([x.T, np.concatenate(extra).transpose(2, 0, 1).reshape(k, -1), np.zeros((k, 1))],
                              axis=1)
         Gb = G[c0:c1]
-        Gb.reshape(k, -1)[:] = np.take(ext, source, axis=1)
+        np.take(ext, source, axis=1, out=Gb.reshape(k, -1), mode="clip")  # (clip: unbuffered; all are in range)
         on_body = x[cb] if cb is not None else np.zeros((0, 2, k))  # (pin-body pair, 2, case), as Gb's
         return balance.block(on_body, Gb[:, balance.rest].transpose(1, 2, 0), T, R, c0, c1)
 
@@ -736,6 +736,7 @@ class _Balance:
         self.n_body, self.n_pin = n_body, n_pin = len(body_ix), len(pins)
         slot, body, xy, slot_pin = on_body
         self.x, self.y = np.asarray(xy[:, 0:1]), np.asarray(xy[:, 1:2])
+        self._rows: dict[int, tuple] = {}
         # what each pin gives its bodies and what each body receives from its pins, in one product
         n_on = len(body)
         self.sum_both = _GroupSum(np.concatenate([slot_pin, n_pin + np.asarray(body, dtype=np.intp)]),
@@ -815,6 +816,12 @@ class _Balance:
         self.load_scale = max(np.hypot(ld_f[:, 0], ld_f[:, 1]).max(initial=0.0), np.abs(ld_m).max(initial=0.0) / L,
                               1e-300)
 
+    def _xy_rows(self, k: int) -> tuple[npt.NDArray[np.float64], npt.NDArray[np.float64]]:
+        """The pins' x and y of the on-body slots, repeated for ``k`` cases (kept per k)."""
+        if k not in self._rows:
+            self._rows[k] = (np.repeat(self.x, k, axis=1), np.repeat(self.y, k, axis=1))
+        return self._rows[k]
+
     def block(self, B, rest, T, R, c0: int, c1: int) -> tuple[float, float]:
         """(largest out-of-balance, largest force) of load cases c0 .. c1 - 1, from the forces ``B``
         (on-body slot, 2, case) the bodies receive, ``rest`` (slot, 2, case) those of the slots
@@ -848,8 +855,10 @@ class _Balance:
 
         # each body: Fx, Fy and Mz about the origin of every force on it: what its pins give it, then
         # its links and supports item by item, then its loads
-        mz = self.x * B[:, 1]
-        mz -= self.y * B[:, 0]
+        xr, yr = self._xy_rows(k)
+        Bc = np.array(B.transpose(1, 0, 2), order="C")  # (2, slot, case) of our own: long inner loops
+        mz = np.multiply(Bc[1], xr, out=Bc[1])
+        mz -= np.multiply(Bc[0], yr, out=Bc[0])
         M = self.sum_body(mz)  # (body, case)
         for kind, i, su, (x, y), bi in self.items:
             if kind == "link":
