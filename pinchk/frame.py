@@ -294,7 +294,7 @@ def _slots(job: Job, members: dict[str, list[str]], pin_ix: dict[str, int], body
 
 
 def _triplets(job: Job):
-    """Equilibrium equations as COO triplets ``(rows, cols, vals)``, the shape, ``b`` and the numbering."""
+    """Equilibrium equations as COO triplets ``(rows, cols, vals)``, the shape, ``b`` (a _Rhs) and the numbering."""
     cases = tuple(job.cases)
     case_ix = {c: i for i, c in enumerate(cases)}
     members = members_at_pins(job)
@@ -377,16 +377,19 @@ def _triplets(job: Job):
                 if s.kind == "fixed":
                     E.add(r + 2, ck + 2, 1.0)  # reaction moment, unknown M / L
 
-    # loads: the right-hand side, one column per case
-    b = np.zeros((eqs.n, len(cases)), order="F")  # column by column, as the solver reads a few cases at a time
+    # loads: the right-hand side, one column per case, kept as its entries (a few per load)
+    rhs_r: list[npt.NDArray[np.intp]] = []
+    rhs_j: list[npt.NDArray[np.intp]] = []
+    rhs_v: list[npt.NDArray[np.float64]] = []
     on_pin = [ld for ld in job.loads if ld.at.pin is not None and ld.body is None]
     on_body = [ld for ld in job.loads if not (ld.at.pin is not None and ld.body is None)]
     if on_pin:
         r = pin_row[[pin_ix[ld.at.pin] for ld in on_pin]]
         j = np.array([case_ix[ld.case] for ld in on_pin], dtype=np.intp)
         f = np.array([ld.force for ld in on_pin], dtype=float)
-        np.subtract.at(b, (r, j), f[:, 0])
-        np.subtract.at(b, (r + 1, j), f[:, 1])
+        rhs_r += [r, r + 1]
+        rhs_j += [j, j]
+        rhs_v += [f[:, 0], f[:, 1]]
     if on_body:
         bi = np.array([body_ix[ld.body if ld.body is not None else ld.at.body] for ld in on_body], dtype=np.intp)
         r = body_row[bi]
@@ -394,9 +397,10 @@ def _triplets(job: Job):
         f = np.array([ld.force for ld in on_body], dtype=float)
         mz = np.array([ld.moment for ld in on_body], dtype=float)
         rxy = _xy(ld.at for ld in on_body) - ref[bi]
-        np.subtract.at(b, (r, j), f[:, 0])
-        np.subtract.at(b, (r + 1, j), f[:, 1])
-        np.subtract.at(b, (r + 2, j), (rxy[:, 0] * f[:, 1] - rxy[:, 1] * f[:, 0] + mz) / L)
+        rhs_r += [r, r + 1, r + 2]
+        rhs_j += [j, j, j]
+        rhs_v += [f[:, 0], f[:, 1], (rxy[:, 0] * f[:, 1] - rxy[:, 1] * f[:, 0] + mz) / L]
+    b = _Rhs(eqs.n, len(cases), rhs_r, rhs_j, rhs_v)
 
     rows, cols, vals = E.arrays()
     numbering = dict(
@@ -406,12 +410,34 @@ def _triplets(job: Job):
     return rows, cols, vals, (eqs.n, unk.n), b, numbering
 
 
+class _Rhs:
+    """The right-hand side b (equation, case) as its entries: a load adds -value at (row, case).
+
+    A block of cases is made dense only when it is solved, so a run of many cases never holds b whole.
+    """
+
+    def __init__(self, n: int, n_case: int, rows, cases, values) -> None:
+        self.shape = (n, n_case)
+        r, j, v = (np.concatenate(a) if a else np.zeros(0, dt) for a, dt in
+                   ((rows, np.intp), (cases, np.intp), (values, float)))
+        order = np.argsort(j, kind="stable")  # by case, each case's entries in the order given
+        self.r, self.j, self.v = r[order], j[order], v[order]
+        self.at = np.searchsorted(self.j, np.arange(n_case + 1))
+
+    def dense(self, c0: int, c1: int) -> npt.NDArray[np.float64]:
+        """Cases c0 .. c1 - 1 of b, column-major; each entry adds its loads one after another."""
+        out = np.zeros((self.shape[0], c1 - c0), order="F")
+        a, z = self.at[c0], self.at[c1]
+        np.subtract.at(out, (self.r[a:z], self.j[a:z] - c0), self.v[a:z])
+        return out
+
+
 def assemble(job: Job):
-    """Equilibrium equations ``A x = b`` of the job (A a scipy CSC matrix), with the numbering used."""
+    """Equilibrium equations ``A x = b`` of the job (A a scipy CSC matrix, b dense), with the numbering used."""
     import scipy.sparse as sp
 
     rows, cols, vals, shape, b, numbering = _triplets(job)
-    return sp.csc_matrix((vals, (rows, cols)), shape=shape), b, numbering
+    return sp.csc_matrix((vals, (rows, cols)), shape=shape), b.dense(0, b.shape[1]), numbering
 
 
 def _involved(owners: list[str], weights: npt.NDArray[np.float64]) -> str:
@@ -497,7 +523,7 @@ def solve(job: Job) -> FrameSolution:
         A = np.zeros(shape)
         np.add.at(A, (np.asarray(rows, dtype=np.intp), np.asarray(cols, dtype=np.intp)), vals)
         _diagnose(job, A, num)  # raises for a mechanism or an indeterminate frame
-        return _collect(job, np.linalg.solve(A, b), num)
+        return _collect(job, np.linalg.solve(A, b.dense(0, b.shape[1])), num)
 
     import scipy.sparse as sp
     import scipy.sparse.linalg as spla
@@ -517,14 +543,14 @@ def solve(job: Job) -> FrameSolution:
         if not checked:
             _diagnose(job, A, num)  # raises when the SVD finds the system singular, naming what is involved
         if lu is None:
-            return _collect(job, np.linalg.solve(A.toarray(), b), num)
+            return _collect(job, np.linalg.solve(A.toarray(), b.dense(0, b.shape[1])), num)
 
     def x_of(c0: int, c1: int) -> npt.NDArray[np.float64]:
         # a few right-hand sides at a time: their columns then stay in the CPU's cache during the solve
         x = np.empty((b.shape[0], c1 - c0), order="F")
         for a in range(c0, c1, SOLVE_COLUMNS):
             z = min(a + SOLVE_COLUMNS, c1)
-            x[:, a - c0:z - c0] = lu.solve(b[:, a:z])
+            x[:, a - c0:z - c0] = lu.solve(b.dense(a, z))
         return x
 
     return _collect_blocks(job, x_of, num)
