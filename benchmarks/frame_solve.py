@@ -9,7 +9,7 @@ is scipy.sparse.linalg.splu of the very matrix pinchk assembles, with pinchk's S
 
 from __future__ import annotations
 
-import math
+import statistics
 import time
 
 import scipy.sparse.linalg as spla
@@ -19,30 +19,39 @@ from pinchk import frame
 from .frames import n_members, truss
 
 
-def best_of(fn, repeat: int) -> float:
-    best = math.inf
+def measure(n_bodies: int, repeat: int, cases: tuple[int, ...] = (1, 100)) -> dict[int, dict[str, float]]:
+    """Per number of load cases: pinchk's and the bare time (best and median of ``repeat``), and more.
+
+    Every repeat runs pinchk and the bare solve for every number of cases in turn, so a busy moment of
+    the machine hits all the figures that are compared with each other alike.
+    """
+    jobs = {nc: truss(n_bodies, nc) for nc in cases}
+    mats = {}
+    for nc, job in jobs.items():
+        A, b, _ = frame.assemble(job)
+        mats[nc] = (A.tocsc(), b)
+        frame.solve(job)  # once before timing: imports and first-use costs are not what is measured
+    times: dict[tuple[int, str], list[float]] = {}
     for _ in range(repeat):
-        t = time.perf_counter()
-        fn()
-        best = min(best, time.perf_counter() - t)
-    return best
-
-
-def measure(n_bodies: int, n_cases: int, repeat: int) -> dict[str, float]:
-    job = truss(n_bodies, n_cases)
-    A, b, _ = frame.assemble(job)
-    A = A.tocsc()
-    t_pinchk = t_bare = math.inf
-    for _ in range(repeat):  # interleaved, so a busy moment of the machine hits both alike
-        t_pinchk = min(t_pinchk, best_of(lambda: frame.solve(job), 1))
-        t_bare = min(t_bare, best_of(lambda: spla.splu(A, **frame.SPLU_OPTIONS).solve(b), 1))
-    return {"bodies": n_members(job), "unknowns": A.shape[0], "cases": n_cases, "pinchk_s": t_pinchk,
-            "bare_s": t_bare, "ratio": t_pinchk / t_bare}
+        for nc, job in jobs.items():
+            A, b = mats[nc]
+            t = time.perf_counter()
+            frame.solve(job)
+            times.setdefault((nc, "pinchk"), []).append(time.perf_counter() - t)
+            t = time.perf_counter()
+            spla.splu(A, **frame.SPLU_OPTIONS).solve(b)
+            times.setdefault((nc, "bare"), []).append(time.perf_counter() - t)
+    out = {}
+    for nc, job in jobs.items():
+        p, q = times[(nc, "pinchk")], times[(nc, "bare")]
+        out[nc] = {"bodies": n_members(job), "unknowns": mats[nc][0].shape[0], "cases": nc,
+                   "pinchk_s": min(p), "bare_s": min(q), "ratio": min(p) / min(q),
+                   "pinchk_median_s": statistics.median(p), "bare_median_s": statistics.median(q)}
+    return out
 
 
 if __name__ == "__main__":
     for n in (10, 100, 1000, 10000):
-        for nc in (1, 100):
-            r = measure(n, nc, 5)
+        for r in measure(n, 5).values():
             print(f"{r['bodies']:>6d} bodies {r['cases']:>4d} cases  pinchk {r['pinchk_s'] * 1e3:9.2f} ms  "
                   f"bare {r['bare_s'] * 1e3:9.2f} ms  ratio {r['ratio']:.2f}")

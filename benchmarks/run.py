@@ -58,11 +58,10 @@ def main(argv: list[str]) -> int:
     # frame solve
     res = {}
     for n in (10, 100, 1000, 10000):
-        for nc in (1, 100):
-            if quick and n == 10000 and nc == 100:
-                continue
-            m = frame_solve.measure(n, nc, 5 if n >= 10000 else 9)
-            res[(n, nc)] = m
+        cases = (1,) if quick and n == 10000 else (1, 100)
+        res.update({(n, nc): m for nc, m in frame_solve.measure(n, 15 if n >= 10000 else 9, cases).items()})
+        for nc in cases:
+            m = res[(n, nc)]
             target = n == 10000
             add(f"frame solve: {m['bodies']:,} bodies, {nc} case(s), {m['unknowns']:,} unknowns",
                 f"{m['pinchk_s'] * 1e3:.2f} ms = {m['ratio']:.2f} x bare scipy ({m['bare_s'] * 1e3:.2f} ms)",
@@ -71,10 +70,14 @@ def main(argv: list[str]) -> int:
     add("frame solve: 1,000 -> 10,000 bodies, 1 case", f"{g:.1f} x the time", "<= 15 x", g <= 15)
     for n in (1000, 10000):
         if (n, 100) in res:
-            c = res[(n, 100)]["pinchk_s"] / res[(n, 1)]["pinchk_s"]
-            cb = res[(n, 100)]["bare_s"] / res[(n, 1)]["bare_s"]
+            one, many = res[(n, 1)], res[(n, 100)]
+            c = many["pinchk_s"] / one["pinchk_s"]
+            cm = many["pinchk_median_s"] / one["pinchk_median_s"]
+            cb = many["bare_s"] / one["bare_s"]
+            target = n == 10000
             add(f"frame solve: 100 cases against 1, {n:,} bodies",
-                f"{c:.2f} x the time (bare scipy alone: {cb:.2f} x)", "<= 2 x", c <= 2)
+                f"{c:.2f} x the time, best of each (medians: {cm:.2f} x; bare scipy alone: {cb:.2f} x)",
+                "<= 2 x" if target else "-", c <= 2 if target else None)
 
     # check kernel (last: 10 million rows leave the process with a large heap)
     for n in (1_000, 100_000) + (() if quick else (10_000_000,)):

@@ -556,29 +556,32 @@ def solve(job: Job) -> FrameSolution:
     return _collect_blocks(job, x_of, num)
 
 
-#: Load cases are solved, collected and checked in blocks of about this many. A block's arrays stay small
-#: (a few MB at 10,000 bodies), where arrays of every case at once would each cost fresh memory; the
-#: results are the same to the last bit whatever the blocks.
-CASE_BLOCK = 16
-#: A frame with at least this many pin-force numbers (slots x 2 x cases) works its blocks side by side,
-#: one thread per CPU (the solver and numpy's large steps release the GIL).
+#: Load cases are solved, collected and checked in blocks of about this many pin-force numbers (slots x 2
+#: x cases: 16 cases at 10,000 bodies; a small frame's cases all in one block). A block's arrays stay
+#: small (a few MB), where arrays of every case at once would each cost fresh memory; the results are the
+#: same to the last bit whatever the blocks.
+BLOCK_SIZE = 720_000
+#: A frame with at least this many pin-force numbers in all works its blocks side by side, one thread per
+#: CPU (the solver and numpy's large steps release the GIL).
 THREAD_SIZE = 200_000
 #: SuperLU solves this many load cases at a time (fewer columns stay in cache; see benchmarks/frame_solve.py).
 SOLVE_COLUMNS = 4
 
 
-def _case_blocks(n_case: int, workers: int) -> list[tuple[int, int]]:
-    """Blocks (c0, c1) of about CASE_BLOCK cases, as many as a multiple of ``workers``, of equal size."""
-    n = -(-n_case // CASE_BLOCK)
-    n = -(-n // workers) * workers
-    edges = [round(i * n_case / n) for i in range(n + 1)]
+def _case_blocks(n_case: int, per_case: int, workers: int) -> list[tuple[int, int]]:
+    """Blocks (c0, c1) of cases of about BLOCK_SIZE numbers (``per_case`` a case), of equal size, as
+    many as a multiple of ``workers``."""
+    n = -(-n_case * max(per_case, 1) // BLOCK_SIZE)
+    n = min(n_case, -(-n // workers) * workers)
+    edges = [round(i * n_case / n) for i in range(n + 1)] if n else [0]
     return [(a, b) for a, b in zip(edges[:-1], edges[1:], strict=True) if b > a]
 
 
 def _in_blocks(work, n_case: int, size: int) -> tuple[float, float]:
-    """Largest (out-of-balance, force) over the blocks of cases, ``work(c0, c1)`` giving each block's."""
+    """Largest (out-of-balance, force) over the blocks of cases, ``work(c0, c1)`` giving each block's;
+    ``size`` is the number of pin-force numbers of all cases."""
     workers = (os.cpu_count() or 1) if size >= THREAD_SIZE else 1
-    blocks = _case_blocks(n_case, workers)
+    blocks = _case_blocks(n_case, size // max(n_case, 1), workers)
     if workers > 1 and len(blocks) > 1:
         from concurrent.futures import ThreadPoolExecutor
 

@@ -193,3 +193,31 @@ def test_group_sums_add_in_order_both_ways(monkeypatch):
 def test_large_truss_forces_as_before_with_the_sparse_sums(monkeypatch):
     monkeypatch.setattr(frame, "_SPARSE_SUM_SIZE", 0)
     _same_assembly(truss(200, 2, link_every=2, jitter=0.05, seed=9, body_support=True))
+
+
+@pytest.mark.parametrize("threads", [False, True])
+def test_cases_in_blocks_give_the_same_bits(monkeypatch, threads):
+    """Load cases solved, collected and checked in several blocks (side by side or one after another)
+    give the same forces, reactions, tensions and residual to the last bit as all cases in one block,
+    both from the solve and from equilibrium_residual; a wrong force in a later block is still seen."""
+    job = truss(300, 9, link_every=3, jitter=0.1, seed=4, body_support=True)
+    whole = frame.solve(job)
+    slots = sum(len(pf.members) for pf in whole.pins.values())
+    monkeypatch.setattr(frame, "BLOCK_SIZE", 2 * slots * 2)  # two cases a block: five blocks
+    monkeypatch.setattr(frame, "THREAD_SIZE", 0 if threads else 10**12)
+    assert len(frame._case_blocks(9, 2 * slots, 2 if threads else 1)) >= 5
+    parts = frame.solve(job)
+    assert parts.residual == whole.residual == frame.equilibrium_residual(job, parts)
+    for p, pf in whole.pins.items():
+        assert np.array_equal(parts.pins[p].force, pf.force), p
+    for n, t in whole.links.items():
+        assert np.array_equal(parts.links[n], t), n
+    for n, r in whole.supports.items():
+        assert np.array_equal(parts.supports[n], r), n
+    bad = dataclasses.replace(parts, pins=dict(parts.pins))
+    pf = bad.pins["T3"]
+    f = pf.force.copy()
+    scale = max(np.abs(q.force).max() for q in parts.pins.values())
+    f[8, 0, 0] += 1e-3 * scale  # the last case, the last block
+    bad.pins["T3"] = dataclasses.replace(pf, force=f)
+    assert frame.equilibrium_residual(job, bad) > 1e-4
