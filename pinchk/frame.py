@@ -404,7 +404,7 @@ def _triplets(job: Job):
 
     rows, cols, vals = E.arrays()
     numbering = dict(
-        cases=cases, members=members, L=L, eqs=eqs, unk=unk,
+        cases=cases, members=members, L=L, eqs=eqs, unk=unk, index=(case_ix, body_ix, pin_ix),
         link_col=link_col, sup_col=sup_col, slots=slots, pb_col=pb_col, pin_xy=pin_xy, places=places,
     )
     return rows, cols, vals, (eqs.n, unk.n), b, numbering
@@ -605,7 +605,7 @@ def _collect_blocks(job: Job, x_of, num) -> FrameSolution:
     """
     cases, members, L = num["cases"], num["members"], num["L"]
     n_case = len(cases)
-    case_ix = {c: j for j, c in enumerate(cases)}
+    case_ix, _, pin_ix = num["index"]
     link_list = list(job.links.values())
     T_all = np.zeros((len(link_list), n_case))  # link tensions, in the order of job.links
     t_col = np.array([num["link_col"][lk.name] for lk in link_list], dtype=np.intp)
@@ -631,13 +631,13 @@ def _collect_blocks(job: Job, x_of, num) -> FrameSolution:
         sl_col = t_col[sl.l_link]
     if sl.s_load:
         hung = [ld for ld in job.loads if ld.at.pin is not None and ld.body is None]
-        pin_ix = {p: k for k, p in enumerate(job.pins)}
         h_pin = np.array([pin_ix[ld.at.pin] for ld in hung], dtype=np.intp)
         h_case = np.array([case_ix[ld.case] for ld in hung], dtype=np.intp)
         h_f = np.array([ld.force for ld in hung], dtype=float).reshape(-1, 2)
     at_pin = {p: tuple(m) for p, m in members.items()}
     balance = _Balance(job, list(at_pin.items()),
-                       (sl.pb_slot, sl.pb_body, num["pin_xy"][sl.pb_pin], sl.pb_pin), num["places"], cases)
+                       (sl.pb_slot, sl.pb_body, num["pin_xy"][sl.pb_pin], sl.pb_pin), num["places"], cases,
+                       num["index"])
     n_sup = len(job.supports)
 
     def block(c0: int, c1: int) -> tuple[float, float]:
@@ -758,10 +758,12 @@ class _Balance:
     its terms in the order a loop over the job would, whatever the blocks.
     """
 
-    def __init__(self, job: Job, pins: list[tuple[str, tuple[str, ...]]], on_body, places, cases) -> None:
-        case_ix = {c: j for j, c in enumerate(cases)}
-        body_ix = {b: i for i, b in enumerate(job.bodies)}
-        pin_ix = {p: k for k, (p, _) in enumerate(pins)}
+    def __init__(self, job: Job, pins: list[tuple[str, tuple[str, ...]]], on_body, places, cases,
+                 index=None) -> None:
+        # ``index``: the (case, body, pin) numbering dicts when the caller has them (pins in job order)
+        case_ix, body_ix, pin_ix = index or ({c: j for j, c in enumerate(cases)},
+                                             {b: i for i, b in enumerate(job.bodies)},
+                                             {p: k for k, (p, _) in enumerate(pins)})
         self.n_body, self.n_pin = n_body, n_pin = len(body_ix), len(pins)
         slot, body, xy, slot_pin = on_body
         self.x, self.y = np.asarray(xy[:, 0:1]), np.asarray(xy[:, 1:2])
