@@ -2,7 +2,7 @@
 
 from __future__ import annotations
 
-import gc
+import operator
 from bisect import bisect_right
 from collections.abc import Sequence
 from dataclasses import dataclass, field
@@ -82,18 +82,16 @@ class Results:
 _STATUS = np.array(["FAIL", "pass"], dtype=object)
 
 
-def _factors_text(factors: str, stack) -> list[str]:
-    """The 'factors' text of each row: the check's own factors, then the row's stack of load factors."""
+def _factors_text(factors: str, stack) -> tuple[npt.NDArray[np.intp], npt.NDArray[np.object_]]:
+    """The 'factors' text of each row: the check's own factors, then the row's stack of load factors,
+    as (code of each row, texts)."""
     stack = np.asarray(stack, dtype=object)
-    if stack.size == 0:
-        return []
-    first = stack[0]
-    if (stack == first).all():  # the common case: one text for every row
-        return [factors + ("; " if factors and first else "") + first] * stack.size
+    if stack.size and (stack == stack[0]).all():  # the common case: one text for every row
+        return np.zeros(stack.size, np.intp), np.array([factors + ("; " if factors and stack[0] else "") + stack[0]],
+                                                       dtype=object)
     index: dict[str, int] = {}
     inv = np.fromiter((index.setdefault(t, len(index)) for t in stack.tolist()), np.intp, stack.size)
-    joined = np.array([factors + ("; " if factors and t else "") + t for t in index], dtype=object)
-    return joined[inv].tolist()
+    return inv, np.array([factors + ("; " if factors and t else "") + t for t in index], dtype=object)
 
 
 def check_table(blocks, cases, dropped: list[int] | None = None) -> dict[str, object]:
@@ -105,28 +103,84 @@ def check_table(blocks, cases, dropped: list[int] | None = None) -> dict[str, ob
     note, except for the checks named in joint.OUTLINE_FREE) and a test of the check names to keep.
     Rows whose capacity is unbounded (+inf: the force runs into the body of the plate) are left out
     and counted in ``dropped[0]``. Every column is built with whole-array operations (no Python loop
-    over rows): numbers as numpy arrays, text as tuples of str.
+    over rows): numbers as numpy arrays, text as TextColumns (read like tuples of str).
     """
-    # the text columns are a few very long lists: the cyclic garbage collector would walk them again and
-    # again while they grow (more than half the time at 10 million rows); they hold only str
-    was_enabled = gc.isenabled()
-    gc.disable()
-    try:
-        return _check_table(blocks, cases, dropped if dropped is not None else [0])
-    finally:
-        if was_enabled:
-            gc.enable()
+    return _check_table(blocks, cases, dropped if dropped is not None else [0])
 
 
-def _note_text(note: str, row_notes) -> list[str]:
-    """The 'note' text of each row: the check's own note, then the row's note."""
+def _note_text(note: str, row_notes) -> tuple[npt.NDArray[np.intp], npt.NDArray[np.object_]]:
+    """The 'note' text of each row: the check's own note, then the row's note, as (code of each row,
+    texts)."""
     row_notes = np.asarray(row_notes, dtype=object)
     if row_notes.size and (row_notes == row_notes[0]).all():  # the common case: one note for every row
-        return ["; ".join(x for x in (note, row_notes[0]) if x)] * row_notes.size
+        return np.zeros(row_notes.size, np.intp), np.array(["; ".join(x for x in (note, row_notes[0]) if x)],
+                                                           dtype=object)
     index: dict[str, int] = {}
     inv = np.fromiter((index.setdefault(t, len(index)) for t in row_notes.tolist()), np.intp, row_notes.size)
-    joined = np.array(["; ".join(x for x in (note, t) if x) for t in index], dtype=object)
-    return joined[inv].tolist()
+    return inv, np.array(["; ".join(x for x in (note, t) if x) for t in index], dtype=object)
+
+
+class TextColumn(Sequence):
+    """A text column of the results table, kept per check as a code per row into a few texts (a text
+    repeated is one text and no codes); a row's text is looked up when it is read.
+
+    A table of 10 million rows would otherwise hold 10 million references per column. It reads like a
+    tuple of str: len, index (int or slice), iteration, ``in``, equality with any sequence of str.
+    """
+
+    def __init__(self) -> None:
+        self._starts: list[int] = []
+        self._blocks: list[tuple] = []  # (codes or None, texts)
+        self._n = 0
+
+    def add(self, k: int, texts, codes=None) -> None:
+        """``k`` rows: ``texts[codes]``, or the one text ``texts`` k times when ``codes`` is None."""
+        if k:
+            self._starts.append(self._n)
+            self._blocks.append((codes, texts))
+            self._n += k
+
+    def __len__(self) -> int:
+        return self._n
+
+    def __getitem__(self, i):
+        if isinstance(i, slice):
+            return [self[j] for j in range(*i.indices(self._n))]
+        i = operator.index(i)
+        if i < 0:
+            i += self._n
+        if not 0 <= i < self._n:
+            raise IndexError(i)
+        b = bisect_right(self._starts, i) - 1
+        codes, texts = self._blocks[b]
+        return texts if codes is None else texts[codes[i - self._starts[b]]]
+
+    def _pieces(self):
+        ends = self._starts[1:] + [self._n] if self._blocks else []
+        for (codes, texts), a, z in zip(self._blocks, self._starts, ends, strict=True):
+            yield [texts] * (z - a) if codes is None else texts[codes].tolist()
+
+    def __iter__(self):
+        for piece in self._pieces():
+            yield from piece
+
+    def __array__(self, dtype=None, copy=None):
+        out = np.empty(self._n, dtype=object)
+        at = 0
+        for piece in self._pieces():
+            out[at:at + len(piece)] = piece
+            at += len(piece)
+        return out if dtype is None else out.astype(dtype)
+
+    def __eq__(self, other) -> bool:
+        if not isinstance(other, Sequence) or isinstance(other, str):
+            return NotImplemented
+        return len(self) == len(other) and all(a == b for a, b in zip(self, other, strict=True))
+
+    __hash__ = None  # type: ignore[assignment]
+
+    def __repr__(self) -> str:
+        return f"TextColumn({tuple(self)!r})"
 
 
 class TermsColumn(Sequence):
@@ -191,40 +245,37 @@ def _check_table(blocks, cases, dropped: list[int]) -> dict[str, object]:
                 util = np.where(cap > 0, dem / np.where(cap > 0, cap, 1.0), np.inf)
             own_note = notes is None or any(w in ch.name for w in joint.OUTLINE_FREE)
             parts.append((ch, mask, dem, cap, util, pins_, names, stack_text, None if own_note else notes))
-    total = sum(len(p[4]) for p in parts)
-    txt = {k: [None] * total for k in COLUMNS if k not in ("demand", "capacity", "utilization", "terms")}
+    txt = {k: TextColumn() for k in COLUMNS if k not in ("demand", "capacity", "utilization", "terms")}
     terms = TermsColumn()
-    at = 0
     for ch, mask, _, _, util, pins_, names, stack_text, notes in parts:
         k = len(util)
-        s = slice(at, at + k)
         row = np.flatnonzero(mask)  # rows run (pin or plate) by (case)
         label, case = np.divmod(row, nc)
-        txt["pin"][s] = pins_[label].tolist()
-        txt["part"][s] = names[label].tolist()
-        txt["check"][s] = [ch.name] * k
-        txt["case"][s] = case_arr[case].tolist()
-        txt["kind"][s] = [ch.kind] * k
-        txt["status"][s] = _STATUS[(util <= 1.0).view(np.int8)].tolist()
-        txt["clause"][s] = [ch.clause] * k
-        txt["formula"][s] = [ch.formula] * k
+        txt["pin"].add(k, pins_, label)
+        txt["part"].add(k, names, label)
+        txt["check"].add(k, ch.name)
+        txt["case"].add(k, case_arr, case)
+        txt["kind"].add(k, ch.kind)
+        txt["status"].add(k, _STATUS, (util <= 1.0).view(np.int8))
+        txt["clause"].add(k, ch.clause)
+        txt["formula"].add(k, ch.formula)
         if ch.uses_forces:
-            txt["factors"][s] = _factors_text(ch.factors, np.asarray(stack_text, dtype=object)[mask])
+            codes, texts = _factors_text(ch.factors, np.asarray(stack_text, dtype=object)[mask])
+            txt["factors"].add(k, texts, codes)
         else:  # a detailing rule: no load factors enter it
-            txt["factors"][s] = [ch.factors] * k
+            txt["factors"].add(k, ch.factors)
         if notes is None:
-            txt["note"][s] = [ch.note] * k
+            txt["note"].add(k, ch.note)
         else:
-            txt["note"][s] = _note_text(ch.note, np.asarray(notes, dtype=object)[row])
-        txt["worked_demand"][s] = [ch.worked[0]] * k
-        txt["worked_capacity"][s] = [ch.worked[1]] * k
+            codes, texts = _note_text(ch.note, np.asarray(notes, dtype=object)[row])
+            txt["note"].add(k, texts, codes)
+        txt["worked_demand"].add(k, ch.worked[0])
+        txt["worked_capacity"].add(k, ch.worked[1])
         terms.add(k, mask, ch.terms)  # the formula's named inputs, made into row tuples when read
-        at += k
     columns: dict[str, object] = {}
     for key, pos in (("demand", 2), ("capacity", 3), ("utilization", 4)):
         columns[key] = np.concatenate([p[pos] for p in parts]) if parts else np.zeros(0)
-    for key in txt:
-        columns[key] = tuple(txt[key])
+    columns.update(txt)
     columns["terms"] = terms
     return {k: columns[k] for k in COLUMNS}
 

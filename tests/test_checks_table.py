@@ -111,9 +111,11 @@ def test_check_table_as_the_loop_built_it(stacks):
         if k == "terms":  # read lazily, row by row, from the method's arrays
             assert len(new[k]) == len(old[k]) and repr(tuple(new[k])) == repr(old[k])
             assert repr(new[k][-1]) == repr(old[k][-1]) and repr(new[k][1:3]) == repr(list(old[k][1:3]))
-        elif isinstance(old[k], tuple):
-            assert isinstance(new[k], tuple) and repr(new[k]) == repr(old[k]), k  # repr: nan equals nan
-            assert all(type(x) is str for x in new[k]), k
+        elif isinstance(old[k], tuple):  # text: read row by row from a code per row into a few texts
+            assert len(new[k]) == len(old[k]) and repr(tuple(new[k])) == repr(old[k]), k
+            assert new[k] == old[k] and new[k] == list(old[k]) and all(type(x) is str for x in new[k]), k
+            assert [new[k][i] for i in (0, -1, len(old[k]) // 2)] == [old[k][i] for i in (0, -1, len(old[k]) // 2)]
+            assert new[k][2:5] == list(old[k][2:5]) and np.array(new[k]).tolist() == list(old[k]), k
         else:
             np.testing.assert_array_equal(new[k], old[k])
     assert "FAIL" in new["status"] and "pass" in new["status"]
