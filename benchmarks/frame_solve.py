@@ -20,10 +20,11 @@ from .frames import n_members, truss
 
 
 def measure(n_bodies: int, repeat: int, cases: tuple[int, ...] = (1, 100)) -> dict[int, dict[str, float]]:
-    """Per number of load cases: pinchk's and the bare time (best and median of ``repeat``), and more.
+    """Per number of load cases: pinchk's and the bare time (best of ``repeat``) and ratios.
 
-    Every repeat runs pinchk and the bare solve for every number of cases in turn, so a busy moment of
-    the machine hits all the figures that are compared with each other alike.
+    Every repeat runs pinchk and the bare solve for every number of cases in turn. A ratio is the
+    median over the repeats of the ratio within each repeat: pinchk against bare ("ratio"), and, for
+    the last number of cases, its time against the first's ("pinchk_per_1", "bare_per_1").
     """
     jobs = {nc: truss(n_bodies, nc) for nc in cases}
     mats = {}
@@ -45,10 +46,16 @@ def measure(n_bodies: int, repeat: int, cases: tuple[int, ...] = (1, 100)) -> di
     for nc, job in jobs.items():
         p, q = times[(nc, "pinchk")], times[(nc, "bare")]
         out[nc] = {"bodies": n_members(job), "unknowns": mats[nc][0].shape[0], "cases": nc,
-                   "pinchk_s": min(p), "bare_s": min(q), "ratio": min(p) / min(q),
-                   "pinchk_median_s": statistics.median(p), "bare_median_s": statistics.median(q)}
+                   "pinchk_s": min(p), "bare_s": min(q),
+                   # a ratio from each repeat's own pair of runs (next to each other in time), then the
+                   # median of those: a slow moment of the machine slows both runs of a pair alike
+                   "ratio": statistics.median(a / b for a, b in zip(p, q, strict=True))}
+    if len(cases) > 1:
+        one, many = cases[0], cases[-1]
+        for who in ("pinchk", "bare"):
+            out[many][f"{who}_per_{one}"] = statistics.median(
+                a / b for a, b in zip(times[(many, who)], times[(one, who)], strict=True))
     return out
-
 
 if __name__ == "__main__":
     for n in (10, 100, 1000, 10000):

@@ -35,8 +35,9 @@ PIVOT_SUSPECT = 1e-8
 #: Equilibrium residual allowed, relative to the largest force in the solution.
 RESIDUAL_TOL = 1e-9
 #: SuperLU without relaxed supernodes: a frame's equations have a few entries per column, so padded
-#: supernodes only add zeros and small dense steps; without them the factor is about twice as fast and a
-#: load case's solve three to four times (benchmarks/frame_solve.py). The ordering and the pivoting rule are the same.
+#: supernodes only add zeros and small dense steps. Without them, at 10,000 bodies, the factorization is
+#: about twice as fast, one case's solve about four times, a block of cases about twice. The ordering and
+#: the pivoting rule are the same.
 SPLU_OPTIONS = {"relax": 1}
 
 _SINGULAR = ("the equilibrium equations are singular: the structure is a mechanism or indeterminate "
