@@ -5,7 +5,8 @@ pin is a small free body of its own, so a load can hang on the pin itself). Unkn
 components each body receives from each pin it sits on, one tension per link or cable, and the reactions
 of the supports (pinned 2, roller 1, fixed 3). The rank of the equations tells a determinate structure
 from a mechanism or an indeterminate one; only a determinate one is solved. One sparse factorization
-serves every load case, solved at once as a matrix of right-hand sides.
+serves every load case; the cases are solved, collected and checked in blocks (side by side on every CPU
+for a large frame).
 
 The equations are assembled as arrays, one block per kind of unknown (pin forces on bodies, links,
 supports), never entry by entry, so a frame of 10,000 bodies assembles in milliseconds.
@@ -563,7 +564,7 @@ def solve(job: Job) -> FrameSolution:
 #: same to the last bit whatever the blocks.
 BLOCK_SIZE = 720_000
 #: A frame with at least this many pin-force numbers in all works its blocks side by side, one thread per
-#: CPU (the solver and numpy's large steps release the GIL).
+#: CPU up to one per block (the solver and numpy's large steps release the GIL).
 THREAD_SIZE = 200_000
 #: SuperLU solves this many load cases at a time (fewer columns stay in cache; see benchmarks/frame_solve.py).
 SOLVE_COLUMNS = 4
@@ -578,11 +579,20 @@ def _case_blocks(n_case: int, per_case: int, workers: int) -> list[tuple[int, in
     return [(a, b) for a, b in zip(edges[:-1], edges[1:], strict=True) if b > a]
 
 
+def _cpus() -> int:
+    """The CPUs this process may run on."""
+    try:
+        return len(os.sched_getaffinity(0))
+    except (AttributeError, OSError):
+        return os.cpu_count() or 1
+
+
 def _in_blocks(work, n_case: int, size: int) -> tuple[float, float]:
     """Largest (out-of-balance, force) over the blocks of cases, ``work(c0, c1)`` giving each block's;
     ``size`` is the number of pin-force numbers of all cases."""
-    workers = (os.cpu_count() or 1) if size >= THREAD_SIZE else 1
-    blocks = _case_blocks(n_case, size // max(n_case, 1), workers)
+    per_case = size // max(n_case, 1)
+    workers = min(_cpus(), len(_case_blocks(n_case, per_case, 1))) if size >= THREAD_SIZE else 1
+    blocks = _case_blocks(n_case, per_case, max(workers, 1))
     if workers > 1 and len(blocks) > 1:
         from concurrent.futures import ThreadPoolExecutor
 
