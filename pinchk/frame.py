@@ -758,7 +758,7 @@ def equilibrium_residual(job: Job, sol: FrameSolution) -> float:
 
 def _absmax(a: npt.NDArray[np.float64]) -> float:
     """Largest magnitude in ``a`` (0 if empty, NaN if any is NaN), without a temporary array."""
-    return float(np.maximum(a.max(initial=0.0), -a.min(initial=0.0)))
+    return float(np.maximum(a.max(initial=0.0), -a.min(initial=0.0))) + 0.0  # + 0.0: never -0.0
 
 
 class _Balance:

@@ -9,6 +9,7 @@ three-hinged arch with its crown moment zero). Units as in the job files: m and 
 from __future__ import annotations
 
 import dataclasses
+import math
 
 import numpy as np
 import pytest
@@ -265,7 +266,10 @@ def test_residual_at_round_off(make_job, name):
 @pytest.mark.parametrize("path", _framed_examples(), ids=lambda p: p.stem)
 def test_examples_residual_at_round_off(path):
     job = load_job(path)
-    assert equilibrium_residual(job, run_solve(job)) < 1e-13
+    sol = run_solve(job)
+    assert equilibrium_residual(job, sol) < 1e-13
+    # never a negative zero (the table would print "-0.0e+00")
+    assert math.copysign(1.0, sol.residual) == 1.0 and math.copysign(1.0, equilibrium_residual(job, sol)) == 1.0
 
 
 def test_residual_sees_a_wrong_solution(make_job):
