@@ -70,8 +70,10 @@ class Results:
         return {k: (v[i].item() if isinstance(v, np.ndarray) else v[i]) for k, v in self.columns.items()}
 
     def rows(self, sort: bool = False) -> list[dict[str, object]]:
-        idx = self.order if sort else range(len(self))
-        return [self.row(int(i)) for i in idx]
+        """Every row as ``row`` gives it; each column is read once, whole (not row by row)."""
+        cols = {k: (v.tolist() if isinstance(v, np.ndarray) else list(v)) for k, v in self.columns.items()}
+        idx = self.order.tolist() if sort else range(len(self))
+        return [{k: c[i] for k, c in cols.items()} for i in idx]
 
     def to_frame(self):
         import pandas as pd

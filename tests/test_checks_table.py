@@ -151,3 +151,9 @@ def test_grade_lookups_as_per_row():
                               for g, u in zip(grades, fu, strict=True)])
     assert np.array_equal(per_text([""] * 4, {"": 2.0}, 1.0), [2.0] * 4)
     assert per_text([], {"a": 1.0}, 0.0).shape == (0,)
+
+
+def test_rows_read_whole_columns_as_row_reads_one():
+    res = pinchk.run(str(Path(__file__).resolve().parent.parent / "examples" / "a_frame_gantry.toml"))
+    assert repr(res.rows()) == repr([res.row(i) for i in range(len(res))])
+    assert repr(res.rows(sort=True)) == repr([res.row(int(i)) for i in res.order])
