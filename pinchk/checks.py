@@ -122,25 +122,20 @@ def _note_text(note: str, row_notes) -> tuple[npt.NDArray[np.intp], npt.NDArray[
     return inv, np.array(["; ".join(x for x in (note, t) if x) for t in index], dtype=object)
 
 
-class TextColumn(Sequence):
-    """A text column of the results table, kept per check as a code per row into a few texts (a text
-    repeated is one text and no codes); a row's text is looked up when it is read.
+class _BlockColumn(Sequence):
+    """A column of the results table made of one block per check; a row is looked up when it is read.
 
-    A table of 10 million rows would otherwise hold 10 million references per column. It reads like a
-    tuple of str: len, index (int or slice), iteration, ``in``, equality with any sequence of str.
+    Subclasses keep ``_starts`` (each block's first row), ``_blocks`` and ``_n`` (rows in all), and say
+    what row ``offset`` of block ``b`` holds (``_item``).
     """
 
     def __init__(self) -> None:
         self._starts: list[int] = []
-        self._blocks: list[tuple] = []  # (codes or None, texts)
+        self._blocks: list = []
         self._n = 0
 
-    def add(self, k: int, texts, codes=None) -> None:
-        """``k`` rows: ``texts[codes]``, or the one text ``texts`` k times when ``codes`` is None."""
-        if k:
-            self._starts.append(self._n)
-            self._blocks.append((codes, texts))
-            self._n += k
+    def _item(self, b: int, offset: int):
+        raise NotImplementedError
 
     def __len__(self) -> int:
         return self._n
@@ -154,8 +149,27 @@ class TextColumn(Sequence):
         if not 0 <= i < self._n:
             raise IndexError(i)
         b = bisect_right(self._starts, i) - 1
+        return self._item(b, i - self._starts[b])
+
+
+class TextColumn(_BlockColumn):
+    """A text column of the results table, kept per check as a code per row into a few texts (a text
+    repeated is one text and no codes); a row's text is looked up when it is read.
+
+    A table of 10 million rows would otherwise hold 10 million references per column. It reads like a
+    tuple of str: len, index (int or slice), iteration, ``in``, equality with any sequence of str.
+    """
+
+    def add(self, k: int, texts, codes=None) -> None:
+        """``k`` rows: ``texts[codes]``, or the one text ``texts`` k times when ``codes`` is None."""
+        if k:
+            self._starts.append(self._n)
+            self._blocks.append((codes, texts))  # (codes or None, texts)
+            self._n += k
+
+    def _item(self, b: int, offset: int):
         codes, texts = self._blocks[b]
-        return texts if codes is None else texts[codes[i - self._starts[b]]]
+        return texts if codes is None else texts[codes[offset]]
 
     def _pieces(self):
         ends = self._starts[1:] + [self._n] if self._blocks else []
@@ -185,39 +199,24 @@ class TextColumn(Sequence):
         return f"TextColumn({tuple(self)!r})"
 
 
-class TermsColumn(Sequence):
+class TermsColumn(_BlockColumn):
     """The named inputs of each row's formula, ((symbol, kind, SI value), ...) per row.
 
     Kept per check as the method's own arrays and the rows it kept; a row's tuple is made only when it
     is read (a report reads them, a sweep of millions of rows does not).
     """
 
-    def __init__(self) -> None:
-        self._starts: list[int] = []
-        self._blocks: list[list] = []  # [mask, kept-row indices or None (made on first read), terms]
-        self._n = 0
-
     def add(self, k: int, mask, terms) -> None:
         self._starts.append(self._n)
-        self._blocks.append([mask, None, terms])
+        self._blocks.append([mask, None, terms])  # [mask, kept-row indices or None (made on first read), terms]
         self._n += k
 
-    def __len__(self) -> int:
-        return self._n
-
-    def __getitem__(self, i):
-        if isinstance(i, slice):
-            return [self[j] for j in range(*i.indices(self._n))]
-        if i < 0:
-            i += self._n
-        if not 0 <= i < self._n:
-            raise IndexError(i)
-        b = bisect_right(self._starts, i) - 1
+    def _item(self, b: int, offset: int):
         block = self._blocks[b]
         mask, rows, terms = block
         if rows is None:
             rows = block[1] = np.flatnonzero(mask)
-        r = rows[i - self._starts[b]]
+        r = rows[offset]
         return tuple((sym, kd, float(np.broadcast_to(np.asarray(v, float), mask.shape)[r]))
                      for sym, kd, v in terms)
 
