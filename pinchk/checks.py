@@ -84,42 +84,18 @@ class Results:
 _STATUS = np.array(["FAIL", "pass"], dtype=object)
 
 
-def _factors_text(factors: str, stack) -> tuple[npt.NDArray[np.intp], npt.NDArray[np.object_]]:
-    """The 'factors' text of each row: the check's own factors, then the row's stack of load factors,
-    as (code of each row, texts)."""
-    stack = np.asarray(stack, dtype=object)
-    if stack.size and (stack == stack[0]).all():  # the common case: one text for every row
-        return np.zeros(stack.size, np.intp), np.array([factors + ("; " if factors and stack[0] else "") + stack[0]],
-                                                       dtype=object)
-    index: dict[str, int] = {}
-    inv = np.fromiter((index.setdefault(t, len(index)) for t in stack.tolist()), np.intp, stack.size)
-    return inv, np.array([factors + ("; " if factors and t else "") + t for t in index], dtype=object)
-
-
-def check_table(blocks, cases, dropped: list[int] | None = None) -> dict[str, object]:
-    """The long results table from the checks of each block of rows, as columns.
-
-    ``blocks`` is a list of ``(checks, labels, stack_text[, notes[, keep]])``: the Checks a method
-    returned for rows that run (pin or plate) by (case), the (pin, part) label of each pin or plate, the
-    text of the load factors applied to each row, optionally a note per row (added to the check's own
-    note, except for the checks named in joint.OUTLINE_FREE) and a test of the check names to keep.
-    Rows whose capacity is unbounded (+inf: the force runs into the body of the plate) are left out
-    and counted in ``dropped[0]``. Every column is built with whole-array operations (no Python loop
-    over rows): numbers as numpy arrays, text as TextColumns (read like tuples of str).
-    """
-    return _check_table(blocks, cases, dropped if dropped is not None else [0])
-
-
-def _note_text(note: str, row_notes) -> tuple[npt.NDArray[np.intp], npt.NDArray[np.object_]]:
-    """The 'note' text of each row: the check's own note, then the row's note, as (code of each row,
-    texts)."""
-    row_notes = np.asarray(row_notes, dtype=object)
-    if row_notes.size and (row_notes == row_notes[0]).all():  # the common case: one note for every row
-        return np.zeros(row_notes.size, np.intp), np.array(["; ".join(x for x in (note, row_notes[0]) if x)],
-                                                           dtype=object)
-    index: dict[str, int] = {}
-    inv = np.fromiter((index.setdefault(t, len(index)) for t in row_notes.tolist()), np.intp, row_notes.size)
-    return inv, np.array(["; ".join(x for x in (note, t) if x) for t in index], dtype=object)
+def _joined_text(own: str, row_texts) -> tuple[npt.NDArray[np.intp], npt.NDArray[np.object_]]:
+    """The check's own text, then each row's text ('factors': the row's stack of load factors; 'note':
+    the row's note), joined by '; ' where both are there, as (code of each row, texts): each distinct
+    text is made once."""
+    row_texts = np.asarray(row_texts, dtype=object)
+    if row_texts.size and (row_texts == row_texts[0]).all():  # the common case: one text for every row
+        index = {row_texts[0]: 0}
+        inv = np.zeros(row_texts.size, np.intp)
+    else:
+        index = {}
+        inv = np.fromiter((index.setdefault(t, len(index)) for t in row_texts.tolist()), np.intp, row_texts.size)
+    return inv, np.array(["; ".join(x for x in (own, t) if x) for t in index], dtype=object)
 
 
 class _BlockColumn(Sequence):
@@ -221,7 +197,18 @@ class TermsColumn(_BlockColumn):
                      for sym, kd, v in terms)
 
 
-def _check_table(blocks, cases, dropped: list[int]) -> dict[str, object]:
+def check_table(blocks, cases, dropped: list[int] | None = None) -> dict[str, object]:
+    """The long results table from the checks of each block of rows, as columns.
+
+    ``blocks`` is a list of ``(checks, labels, stack_text[, notes[, keep]])``: the Checks a method
+    returned for rows that run (pin or plate) by (case), the (pin, part) label of each pin or plate, the
+    text of the load factors applied to each row, optionally a note per row (added to the check's own
+    note, except for the checks named in joint.OUTLINE_FREE) and a test of the check names to keep.
+    Rows whose capacity is unbounded (+inf: the force runs into the body of the plate) are left out
+    and counted in ``dropped[0]``. Every column is built with whole-array operations (no Python loop
+    over rows): numbers as numpy arrays, text as TextColumns (read like tuples of str).
+    """
+    dropped = dropped if dropped is not None else [0]
     nc = len(cases)
     case_arr = np.array(cases, dtype=object)
     # first the numbers and the rows each check keeps, then every text column filled in place
@@ -261,14 +248,14 @@ def _check_table(blocks, cases, dropped: list[int]) -> dict[str, object]:
         txt["clause"].add(k, ch.clause)
         txt["formula"].add(k, ch.formula)
         if ch.uses_forces:
-            codes, texts = _factors_text(ch.factors, np.asarray(stack_text, dtype=object)[mask])
+            codes, texts = _joined_text(ch.factors, np.asarray(stack_text, dtype=object)[mask])
             txt["factors"].add(k, texts, codes)
         else:  # a detailing rule: no load factors enter it
             txt["factors"].add(k, ch.factors)
         if notes is None:
             txt["note"].add(k, ch.note)
         else:
-            codes, texts = _note_text(ch.note, np.asarray(notes, dtype=object)[row])
+            codes, texts = _joined_text(ch.note, np.asarray(notes, dtype=object)[row])
             txt["note"].add(k, texts, codes)
         txt["worked_demand"].add(k, ch.worked[0])
         txt["worked_capacity"].add(k, ch.worked[1])
