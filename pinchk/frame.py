@@ -385,10 +385,11 @@ def _triplets(job: Job):
     rhs_v: list[npt.NDArray[np.float64]] = []
     on_pin = [ld for ld in job.loads if ld.at.pin is not None and ld.body is None]
     on_body = [ld for ld in job.loads if not (ld.at.pin is not None and ld.body is None)]
+    hung = (np.array([pin_ix[ld.at.pin] for ld in on_pin], dtype=np.intp),
+            np.array([case_ix[ld.case] for ld in on_pin], dtype=np.intp),
+            np.array([ld.force for ld in on_pin], dtype=float).reshape(-1, 2))  # pin, case, force of each
     if on_pin:
-        r = pin_row[[pin_ix[ld.at.pin] for ld in on_pin]]
-        j = np.array([case_ix[ld.case] for ld in on_pin], dtype=np.intp)
-        f = np.array([ld.force for ld in on_pin], dtype=float)
+        r, j, f = pin_row[hung[0]], hung[1], hung[2]
         rhs_r += [r, r + 1]
         rhs_j += [j, j]
         rhs_v += [f[:, 0], f[:, 1]]
@@ -406,7 +407,7 @@ def _triplets(job: Job):
 
     rows, cols, vals = E.arrays()
     numbering = dict(
-        cases=cases, members=members, L=L, eqs=eqs, unk=unk, index=(case_ix, body_ix, pin_ix),
+        cases=cases, members=members, L=L, eqs=eqs, unk=unk, index=(case_ix, body_ix, pin_ix), hung=hung,
         link_col=link_col, sup_col=sup_col, slots=slots, pb_col=pb_col, pin_xy=pin_xy, places=places,
     )
     return rows, cols, vals, (eqs.n, unk.n), b, numbering
@@ -616,7 +617,7 @@ def _collect_blocks(job: Job, x_of, num) -> FrameSolution:
     """
     cases, members, L = num["cases"], num["members"], num["L"]
     n_case = len(cases)
-    case_ix, _, pin_ix = num["index"]
+    pin_ix = num["index"][2]
     link_list = list(job.links.values())
     T_all = np.zeros((len(link_list), n_case))  # link tensions, in the order of job.links
     t_col = np.array([num["link_col"][lk.name] for lk in link_list], dtype=np.intp)
@@ -640,11 +641,7 @@ def _collect_blocks(job: Job, x_of, num) -> FrameSolution:
         u = _unit(_xy(lk.ends[0] for lk in link_list), _xy(lk.ends[1] for lk in link_list))
         su = np.array(sl.sign)[:, None] * u[sl.l_link]  # (slot, 2)
         sl_col = t_col[sl.l_link]
-    if sl.s_load:
-        hung = [ld for ld in job.loads if ld.at.pin is not None and ld.body is None]
-        h_pin = np.array([pin_ix[ld.at.pin] for ld in hung], dtype=np.intp)
-        h_case = np.array([case_ix[ld.case] for ld in hung], dtype=np.intp)
-        h_f = np.array([ld.force for ld in hung], dtype=float).reshape(-1, 2)
+    h_pin, h_case, h_f = num["hung"]  # the loads hung on pins
     at_pin = {p: tuple(m) for p, m in members.items()}
     balance = _Balance(job, list(at_pin.items()),
                        (sl.pb_slot, sl.pb_body, num["pin_xy"][sl.pb_pin], sl.pb_pin), num["places"], cases,
